@@ -133,6 +133,8 @@ export interface AnalysisResult {
   rateSource: 'estimated' | 'known';
   /** Exact (Garwood) 95 % interval for the rate, from Σx over Σk of the included periods. */
   rateInterval: Interval;
+  /** What the rate's interval means for the UCL: the UCL at k̄ when the rate is at either end. */
+  rateEffect: { units: number; uclAtLower: number; uclAtUpper: number };
   sigmaZ: number | null;
   multiplier: number;
   /** Per-point α used by probability limits (null for other methods). */

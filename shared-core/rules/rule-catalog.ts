@@ -1,0 +1,100 @@
+import type { RuleId } from '../study/analysis-types.js';
+import type { RulePoint } from './rule-point.js';
+import { alternateRule } from './alternate-rule.js';
+import { avoidRule } from './avoid-rule.js';
+import { beyondRule } from './beyond-rule.js';
+import { hugRule } from './hug-rule.js';
+import { runRule } from './run-rule.js';
+import { trendRule } from './trend-rule.js';
+import { zoneARule, zoneBRule } from './zone-rules.js';
+
+export interface RuleDefinition {
+  id: RuleId;
+  /** What the rule means, in plain words, for a person reading why a period signals. */
+  words: string;
+  source: string;
+  firesAt: (points: readonly RulePoint[], t: number) => boolean;
+}
+
+const WE = 'Western Electric, Statistical Quality Control Handbook (1956)';
+const NELSON = 'Nelson, Journal of Quality Technology 16(4), 1984';
+
+/** The signal rules of DESIGN.md, with their exact definitions (strict inequalities throughout). */
+export const ruleCatalog: Record<RuleId, RuleDefinition> = {
+  beyond: {
+    id: 'beyond',
+    words: 'the count is beyond a control limit',
+    source: `${WE}; ${NELSON}`,
+    firesAt: beyondRule,
+  },
+  'zone-a': {
+    id: 'zone-a',
+    words: '2 of the last 3 periods are more than 2 standard errors from the center on the same side',
+    source: `${WE}; ${NELSON}`,
+    firesAt: zoneARule,
+  },
+  'zone-b': {
+    id: 'zone-b',
+    words: '4 of the last 5 periods are more than 1 standard error from the center on the same side',
+    source: `${WE}; ${NELSON}`,
+    firesAt: zoneBRule,
+  },
+  'run:8': {
+    id: 'run:8',
+    words: 'the last 8 periods are all on the same side of the center',
+    source: WE,
+    firesAt: (points, t) => runRule(points, t, 8),
+  },
+  'run:9': {
+    id: 'run:9',
+    words: 'the last 9 periods are all on the same side of the center',
+    source: NELSON,
+    firesAt: (points, t) => runRule(points, t, 9),
+  },
+  trend: {
+    id: 'trend',
+    words: 'the last 6 periods rise steadily or fall steadily',
+    source: NELSON,
+    firesAt: (points, t) => trendRule(points, t),
+  },
+  alternate: {
+    id: 'alternate',
+    words: 'the last 14 periods alternate up and down',
+    source: NELSON,
+    firesAt: (points, t) => alternateRule(points, t),
+  },
+  hug: {
+    id: 'hug',
+    words: 'the last 15 periods all lie within 1 standard error of the center',
+    source: NELSON,
+    firesAt: (points, t) => hugRule(points, t),
+  },
+  avoid: {
+    id: 'avoid',
+    words: 'the last 8 periods all lie more than 1 standard error from the center, on both sides',
+    source: NELSON,
+    firesAt: (points, t) => avoidRule(points, t),
+  },
+};
+
+export const ruleIds = Object.keys(ruleCatalog) as RuleId[];
+
+/**
+ * Reads a rule list such as `beyond,zone-a,run:9`; `run` alone means `run:8` and `all` every rule
+ * (with `run:8`). Returns the unknown names when there are any.
+ */
+export function parseRuleList(text: string): { rules: RuleId[] } | { unknown: string[] } {
+  const names = text
+    .split(',')
+    .map((name) => name.trim())
+    .filter((name) => name !== '');
+  const rules: RuleId[] = [];
+  const unknown: string[] = [];
+  for (const name of names) {
+    if (name === 'all') rules.push(...ruleIds.filter((id) => id !== 'run:9'));
+    else if (name === 'run') rules.push('run:8');
+    else if (name in ruleCatalog) rules.push(name as RuleId);
+    else unknown.push(name);
+  }
+  return unknown.length > 0 ? { unknown } : { rules: [...new Set(rules)] };
+}

@@ -1,0 +1,217 @@
+import { averageUnitsForDisplay } from '../charts/average-units.js';
+import { signalsHigh, signalsLow, type CountLimits } from '../charts/count-limits.js';
+import { perPointAlpha, phaseOneFap, pointFalseAlarm } from '../charts/false-alarm.js';
+import { laneySigmaZ } from '../charts/laney-sigma-z.js';
+import { probabilityLimits } from '../charts/probability-limits.js';
+import { sigmaLimits } from '../charts/sigma-limits.js';
+import { standardizedValue } from '../charts/standardized-value.js';
+import { findSignals } from '../rules/find-signals.js';
+import { normalQuantile } from '../stats/normal.js';
+import { poissonMeanInterval } from '../stats/poisson-mean-interval.js';
+import { fail, ok, type Result } from '../result.js';
+import type {
+  AnalysisOptions,
+  AnalysisResult,
+  AssignableCause,
+  ChartKind,
+  Exclusion,
+  Observation,
+  PeriodResult,
+} from './analysis-types.js';
+import { dispersionCheck } from './dispersion-check.js';
+import { phaseOneWarnings, uclAt } from './phase-one-warnings.js';
+
+/**
+ * One Phase I iteration: the rate over the included periods, each period's limits at its own kᵢ,
+ * the signal rules over the included periods in order, the dispersion check and the warnings.
+ *
+ *   ū = Σxᵢ / Σkᵢ over included periods (not the mean of the uᵢ), or a known rate
+ *
+ * Excluded periods keep their place on the chart and their limits, but are out of the estimate and
+ * get no rules. Conventions: DESIGN.md, "Statistics". Source of the charts: Montgomery,
+ * Introduction to Statistical Quality Control, ch. 7; Laney (2002), Quality Engineering 14(4).
+ *
+ * @param observations periods in period order (date order where dated, else file order)
+ * @param exclusions the excluded periods with their assignable causes (index into observations)
+ */
+export function analyzePhaseOne(
+  observations: readonly Observation[],
+  exclusions: readonly Exclusion[],
+  options: AnalysisOptions,
+): Result<AnalysisResult> {
+  if (observations.length === 0) return fail({ message: 'there are no periods to analyze' });
+  const causes = new Map<number, AssignableCause>();
+  for (const exclusion of exclusions) {
+    if (!Number.isInteger(exclusion.index) || exclusion.index < 0 || exclusion.index >= observations.length)
+      return fail({ message: `exclusion of period ${exclusion.index + 1} names no period of this study` });
+    causes.set(exclusion.index, exclusion.cause);
+  }
+  const included = observations.map((_, i) => !causes.has(i));
+  const m = included.filter(Boolean).length;
+  if (m === 0) return fail({ message: 'every period is excluded: at least one must stay in the estimate' });
+
+  const chart = chooseChart(observations, options.chart);
+  if (!chart.ok) return chart;
+
+  let totalCount = 0;
+  let totalUnits = 0;
+  observations.forEach((o, i) => {
+    if (included[i]) {
+      totalCount += o.count;
+      totalUnits += o.units;
+    }
+  });
+  const rateKnown = options.knownRate !== undefined;
+  const rate = options.knownRate ?? totalCount / totalUnits;
+  if (!(rate > 0) || !Number.isFinite(rate))
+    return fail({
+      message: rateKnown
+        ? `the known rate must be a positive number (got ${rate})`
+        : 'no nonconformity was counted in the included periods (ū = 0): c and u limits cannot be set',
+    });
+
+  const rawZ = observations.map((o) => standardizedValue(o.count / o.units, rate, o.units));
+  let sigmaZ: number | null = null;
+  if (options.limits === 'laney') {
+    sigmaZ = laneySigmaZ(rawZ, included);
+    if (sigmaZ === null)
+      return fail({ message: 'Laney u′ limits need at least two adjacent included periods' });
+    if (sigmaZ === 0)
+      return fail({ message: 'Laney u′ limits need some variation between adjacent periods (σz = 0)' });
+  }
+
+  const alpha = options.fap !== undefined ? perPointAlpha(options.fap, m) : options.alpha;
+  // For sigma and Laney limits a Phase I false-alarm target sets the multiplier: L = z(1 − α/2).
+  const multiplier =
+    options.fap !== undefined && options.limits !== 'probability'
+      ? normalQuantile(1 - alpha / 2)
+      : options.multiplier;
+  const limitsAt = (units: number): CountLimits =>
+    options.limits === 'probability'
+      ? probabilityLimits(rate, units, alpha)
+      : sigmaLimits(rate, units, multiplier, sigmaZ ?? 1);
+  const cache = new Map<number, CountLimits>();
+  const countLimits = observations.map((o) => {
+    let limits = cache.get(o.units);
+    if (limits === undefined) cache.set(o.units, (limits = limitsAt(o.units)));
+    return limits;
+  });
+
+  // c chart: plotted on the count scale; u chart: on the rate scale (count limits ÷ kᵢ).
+  const scale = (units: number) => (chart.value === 'c' ? 1 : 1 / units);
+  const z = rawZ.map((value) => value / (sigmaZ ?? 1));
+
+  const includedIndex: number[] = [];
+  included.forEach((inc, i) => inc && includedIndex.push(i));
+  const fired = findSignals(
+    includedIndex.map((i) => ({
+      z: z[i],
+      beyond:
+        signalsHigh(observations[i].count, countLimits[i]) ||
+        signalsLow(observations[i].count, countLimits[i]),
+    })),
+    options.rules,
+  );
+  const rulesAt = new Map(includedIndex.map((i, t) => [i, fired[t]]));
+
+  const periods: PeriodResult[] = observations.map((o, i) => {
+    const limits = countLimits[i];
+    const s = scale(o.units);
+    const rules = rulesAt.get(i) ?? [];
+    const cause = causes.get(i);
+    return {
+      index: i,
+      label: o.label,
+      row: o.row,
+      ...(o.rows ? { rows: o.rows } : {}),
+      count: o.count,
+      units: o.units,
+      rate: o.count / o.units,
+      center: limits.mean * s,
+      lcl: limits.lower === null ? null : limits.lower * s,
+      ucl: limits.upper * s,
+      z: z[i],
+      status: cause ? 'excluded' : rules.length > 0 ? 'signal' : 'in',
+      rules,
+      ...(cause ? { cause } : {}),
+    };
+  });
+
+  const includedObs = includedIndex.map((i) => observations[i]);
+  const dispersion = dispersionCheck(
+    includedObs.map((o) => o.count),
+    includedObs.map((o) => o.units),
+    rate,
+    rateKnown,
+  );
+  const fap = phaseOneFap(includedIndex.map((i) => pointFalseAlarm(countLimits[i])));
+  const garwood = poissonMeanInterval(totalCount, 0.95);
+  const rateInterval = { lower: garwood.lower / totalUnits, upper: garwood.upper / totalUnits };
+
+  const displayUnits = averageUnitsForDisplay(includedObs.map((o) => o.units));
+  const averageK =
+    displayUnits === null
+      ? null
+      : (() => {
+          const limits = limitsAt(displayUnits);
+          const s = scale(displayUnits);
+          return {
+            units: displayUnits,
+            lcl: limits.lower === null ? null : limits.lower * s,
+            ucl: limits.upper * s,
+          };
+        })();
+
+  const meanUnits = totalUnits / m;
+  const centerUnits = chart.value === 'c' ? observations[0].units : 1;
+  const result: AnalysisResult = {
+    chart: chart.value,
+    limits: options.limits,
+    center: rate * centerUnits,
+    rate,
+    rateSource: rateKnown ? 'known' : 'estimated',
+    rateInterval,
+    rateEffect: {
+      units: meanUnits,
+      uclAtLower: uclAt(
+        rateInterval.lower,
+        meanUnits,
+        { ...options, alpha, multiplier },
+        sigmaZ,
+        chart.value,
+      ),
+      uclAtUpper: uclAt(
+        rateInterval.upper,
+        meanUnits,
+        { ...options, alpha, multiplier },
+        sigmaZ,
+        chart.value,
+      ),
+    },
+    sigmaZ,
+    multiplier,
+    alpha: options.limits === 'probability' ? alpha : null,
+    fap,
+    m,
+    totals: { count: totalCount, units: totalUnits },
+    periods,
+    dispersion,
+    averageK,
+    stable: periods.every((p) => p.status !== 'signal'),
+    warnings: [],
+  };
+  result.warnings = phaseOneWarnings(result, { ...options, alpha, multiplier });
+  return ok(result);
+}
+
+/** A c chart when every period has the same k, else a u chart; `c` with varying k is an error. */
+function chooseChart(observations: readonly Observation[], requested?: ChartKind): Result<ChartKind> {
+  const first = observations[0].units;
+  const equal = observations.every((o) => o.units === first);
+  if (requested === 'c' && !equal)
+    return fail({
+      message:
+        'a c chart needs the same number of inspection units in every period; these periods differ, so use a u chart',
+    });
+  return ok(requested ?? (equal ? 'c' : 'u'));
+}
