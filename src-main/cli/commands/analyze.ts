@@ -1,0 +1,272 @@
+import { parseArgs } from 'node:util';
+import { readFile } from 'node:fs/promises';
+import Papa from 'papaparse';
+import { parseRuleList } from '../../../shared-core/rules/rule-catalog.js';
+import { describeFinding, type Finding } from '../../../shared-core/result.js';
+import {
+  defaultOptions,
+  type AnalysisOptions,
+  type AnalysisResult,
+  type AssignableCause,
+  type Exclusion,
+  type Observation,
+} from '../../../shared-core/study/analysis-types.js';
+import { iterationHistory } from '../../../shared-core/study/iteration-history.js';
+import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
+import { normalQuantile } from '../../../shared-core/stats/normal.js';
+import type { ImportOutcome } from '../../../shared-core/import/import-report.js';
+import { importFile } from '../../services/import/import-file.js';
+import { importFlags, importRequestFromFlags } from '../import-flags.js';
+import { analysisJson } from '../analysis-json.js';
+import { analysisTable } from '../analysis-table.js';
+
+export const usage = `Usage: limit-ledger analyze FILE --count COL [--units COL] [--label COL] [--chart c|u]
+  [--limits sigma|probability|laney] [--sigma L] [--alpha A | --fap F] [--rate R]
+  [--exclude LABEL=REASON]... [--exclusions FILE] [--rules LIST] [--skip-invalid] [--json]
+
+  --count COL         the column of nonconformity counts
+  --units COL         the column of inspection units per period (none: 1 unit per period)
+  --label COL         the column that names each period (none: #ROW, the spreadsheet row)
+  --chart c|u         c needs the same units in every period (default: c when they are equal, else u)
+  --limits METHOD     sigma (default), probability (exact Poisson) or laney (u′)
+  --sigma L           the multiplier of sigma and Laney limits (default 3)
+  --alpha A           per-point false-alarm probability of probability limits (default 0.0027)
+  --fap F             Phase I false-alarm probability over the included periods instead of --alpha
+  --rate R            a known (standard) rate per inspection unit instead of the estimate
+  --exclude L=REASON  exclude period L (its label, or #ROW) with an assignable cause,
+                      REASON as "CATEGORY: description" or a description alone
+  --exclusions FILE   a table with columns label, category, description, reference
+  --rules LIST        signal rules: beyond (default), zone-a, zone-b, run (run:8), run:9, trend,
+                      alternate, hug, avoid, or all
+  --skip-invalid      analyze the valid rows and list each left-out row under "rejected"
+  --json              print one JSON object (the contract in DESIGN.md)
+`;
+
+/** A usage or input problem: exit status 2 with a message that names file, row and column. */
+class InputError extends Error {}
+
+export async function run(argv: string[]): Promise<number> {
+  try {
+    return await analyze(argv);
+  } catch (error) {
+    if (error instanceof InputError) {
+      process.stderr.write(`limit-ledger analyze: ${error.message}\n`);
+      return 2;
+    }
+    throw error;
+  }
+}
+
+async function analyze(argv: string[]): Promise<number> {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      strict: true,
+      options: {
+        ...importFlags,
+        chart: { type: 'string' },
+        limits: { type: 'string' },
+        sigma: { type: 'string' },
+        alpha: { type: 'string' },
+        fap: { type: 'string' },
+        rate: { type: 'string' },
+        exclude: { type: 'string', multiple: true },
+        exclusions: { type: 'string' },
+        rules: { type: 'string' },
+        'skip-invalid': { type: 'boolean' },
+        json: { type: 'boolean' },
+        help: { type: 'boolean', short: 'h' },
+      },
+    });
+  } catch (error) {
+    throw new InputError(`${(error as Error).message}\n\n${usage}`);
+  }
+  const { values, positionals } = parsed;
+  if (values.help) {
+    process.stdout.write(usage);
+    return 0;
+  }
+  if (positionals.length !== 1) throw new InputError(`name exactly one data file\n\n${usage}`);
+  const file = positionals[0];
+
+  const options = analysisOptions(values);
+  const request = importRequestFromFlags(values);
+  if (!request.ok) throw new InputError(request.findings.map(describeFinding).join('\n'));
+
+  const imported = await importFile(file, request.value);
+  if (!imported.ok) throw new InputError(imported.findings.map(describeFinding).join('\n'));
+  const outcome = imported.value;
+  if (outcome.rejected.length > 0 && !values['skip-invalid']) {
+    const lines = outcome.rejected.map((r) =>
+      describeFinding({
+        file: outcome.report.file ?? file,
+        row: r.row,
+        column: r.column,
+        value: r.value,
+        message: r.message,
+      }),
+    );
+    throw new InputError(
+      `${lines.join('\n')}\n${outcome.rejected.length} invalid cell(s); fix them, or use --skip-invalid to analyze the other rows`,
+    );
+  }
+  const observations = outcome.observations;
+
+  const exclusions = [
+    ...(values.exclude ?? []).map((text) => exclusionFromFlag(text, observations)),
+    ...(values.exclusions ? await exclusionsFromFile(values.exclusions, observations) : []),
+  ];
+
+  const result = analyzePhaseOne(observations, exclusions, options);
+  if (!result.ok)
+    throw new InputError(result.findings.map((f) => describeFinding({ file, ...f })).join('\n'));
+  const steps = exclusions.length > 0 ? [[], exclusions] : [[]];
+  const history = iterationHistory(observations, steps, options);
+  const iterations = history.ok ? history.value : [];
+
+  if (values.json) {
+    process.stdout.write(`${JSON.stringify(analysisJson(result.value, outcome, iterations))}\n`);
+  } else {
+    process.stdout.write(analysisTable(result.value, outcome, file));
+  }
+  return 0;
+}
+
+function numberFlag(
+  values: Record<string, unknown>,
+  name: string,
+  test: (x: number) => boolean,
+  what: string,
+) {
+  const text = values[name];
+  if (text === undefined) return undefined;
+  const value = Number(text);
+  if (typeof text !== 'string' || text.trim() === '' || !Number.isFinite(value) || !test(value))
+    throw new InputError(`--${name} "${String(text)}" ${what}`);
+  return value;
+}
+
+function analysisOptions(values: Record<string, unknown>): AnalysisOptions {
+  const chart = values.chart as string | undefined;
+  if (chart !== undefined && chart !== 'c' && chart !== 'u')
+    throw new InputError(`--chart "${chart}" must be c or u`);
+  const limits = (values.limits as string | undefined) ?? 'sigma';
+  if (limits !== 'sigma' && limits !== 'probability' && limits !== 'laney')
+    throw new InputError(`--limits "${limits}" must be sigma, probability or laney`);
+  const sigma = numberFlag(values, 'sigma', (x) => x > 0, 'must be a positive multiplier');
+  const alpha = numberFlag(values, 'alpha', (x) => x > 0 && x < 1, 'must be a probability between 0 and 1');
+  const fap = numberFlag(values, 'fap', (x) => x > 0 && x < 1, 'must be a probability between 0 and 1');
+  const rate = numberFlag(values, 'rate', (x) => x > 0, 'must be a positive rate per inspection unit');
+  if (alpha !== undefined && fap !== undefined) throw new InputError('give --alpha or --fap, not both');
+  let multiplier = sigma ?? defaultOptions.multiplier;
+  if (limits !== 'probability' && (alpha !== undefined || fap !== undefined)) {
+    // For sigma and Laney limits a false-alarm target sets the multiplier: L = z(1 − α/2).
+    if (sigma !== undefined)
+      throw new InputError('give --sigma or a false-alarm target (--alpha, --fap), not both');
+    if (alpha !== undefined) multiplier = normalQuantile(1 - alpha / 2);
+  }
+  if (limits === 'probability' && sigma !== undefined)
+    throw new InputError('--sigma sets sigma and Laney limits; probability limits take --alpha or --fap');
+  let rules = defaultOptions.rules;
+  if (values.rules !== undefined) {
+    const parsed = parseRuleList(values.rules as string);
+    if ('unknown' in parsed)
+      throw new InputError(
+        `--rules: unknown rule(s) ${parsed.unknown.map((r) => `"${r}"`).join(', ')}; known: beyond, zone-a, zone-b, run, run:9, trend, alternate, hug, avoid, all`,
+      );
+    rules = parsed.rules;
+  }
+  return {
+    ...(chart ? { chart } : {}),
+    limits,
+    multiplier,
+    alpha: alpha ?? defaultOptions.alpha,
+    ...(fap !== undefined ? { fap } : {}),
+    ...(rate !== undefined ? { knownRate: rate } : {}),
+    rules,
+  };
+}
+
+/** `CATEGORY: description` or a description alone (category "unspecified"). */
+function causeFromText(text: string): AssignableCause {
+  const colon = text.indexOf(':');
+  if (colon > 0 && colon < text.length - 1) {
+    return { category: text.slice(0, colon).trim(), description: text.slice(colon + 1).trim() };
+  }
+  return { category: 'unspecified', description: text.trim() };
+}
+
+/** Finds the period a label names: its label value, or `#ROW` for its spreadsheet row. */
+export function periodIndex(label: string, observations: readonly Observation[]): number | string {
+  const byRow = /^#(\d+)$/.exec(label);
+  const matches = observations.flatMap((o, i) =>
+    o.label === label || (byRow && o.row === Number(byRow[1])) ? [i] : [],
+  );
+  if (matches.length === 1) return matches[0];
+  if (matches.length === 0) return `no period is labelled "${label}"`;
+  const rows = matches.map((i) => `#${observations[i].row}`).join(', ');
+  return `the label "${label}" names ${matches.length} periods; name one by its row: ${rows}`;
+}
+
+function exclusionFromFlag(text: string, observations: readonly Observation[]): Exclusion {
+  const equals = text.indexOf('=');
+  if (equals <= 0) throw new InputError(`--exclude "${text}" must be LABEL=REASON`);
+  const label = text.slice(0, equals).trim();
+  const reason = text.slice(equals + 1).trim();
+  if (reason === '') throw new InputError(`--exclude "${text}": an exclusion needs an assignable cause`);
+  const index = periodIndex(label, observations);
+  if (typeof index === 'string') throw new InputError(`--exclude: ${index}`);
+  return { index, cause: causeFromText(reason) };
+}
+
+async function exclusionsFromFile(file: string, observations: readonly Observation[]): Promise<Exclusion[]> {
+  let text: string;
+  try {
+    text = (await readFile(file, 'utf8')).replace(/^\uFEFF/, '');
+  } catch (error) {
+    throw new InputError(`${file}: cannot be read (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
+  }
+  const parsed = Papa.parse<string[]>(text, { skipEmptyLines: 'greedy' });
+  const [header, ...rows] = parsed.data;
+  const column = (name: string) => (header ?? []).findIndex((h) => h.trim().toLowerCase() === name);
+  const at = { label: column('label'), category: column('category'), description: column('description') };
+  const reference = column('reference');
+  const missing = Object.entries(at).filter(([, i]) => i < 0);
+  if (missing.length > 0)
+    throw new InputError(
+      `${file}, row 1: the exclusions table needs the column(s) ${missing.map(([n]) => `"${n}"`).join(', ')} (found ${(header ?? []).map((h) => `"${h}"`).join(', ')})`,
+    );
+  const problems: Finding[] = [];
+  const exclusions: Exclusion[] = [];
+  rows.forEach((cells, i) => {
+    const row = i + 2;
+    const label = (cells[at.label] ?? '').trim();
+    const category = (cells[at.category] ?? '').trim();
+    const description = (cells[at.description] ?? '').trim();
+    if (description === '') {
+      problems.push({
+        file,
+        row,
+        column: 'description',
+        message: 'an exclusion needs a description of its cause',
+      });
+      return;
+    }
+    const index = periodIndex(label, observations);
+    if (typeof index === 'string') {
+      problems.push({ file, row, column: 'label', value: label, message: index });
+      return;
+    }
+    const ref = reference >= 0 ? (cells[reference] ?? '').trim() : '';
+    exclusions.push({
+      index,
+      cause: { category: category || 'unspecified', description, ...(ref ? { reference: ref } : {}) },
+    });
+  });
+  if (problems.length > 0) throw new InputError(problems.map(describeFinding).join('\n'));
+  return exclusions;
+}
+
+export type { AnalysisResult, ImportOutcome };

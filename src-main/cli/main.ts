@@ -1,0 +1,50 @@
+/**
+ * The `limit-ledger` command: a table of subcommands, each loaded only when it runs so that a
+ * quick `analyze` does not pay for PDF, workbook or server code.
+ */
+export interface Command {
+  summary: string;
+  load: () => Promise<{ run: (argv: string[]) => Promise<number> }>;
+}
+
+export const commands: Record<string, Command> = {
+  analyze: {
+    summary: 'analyze a history of counts: limits, signals, checks (--json for programs)',
+    load: () => import('./commands/analyze.js'),
+  },
+};
+
+export function helpText(): string {
+  const width = Math.max(...Object.keys(commands).map((name) => name.length));
+  const lines = Object.entries(commands).map(([name, c]) => `  ${name.padEnd(width)}  ${c.summary}`);
+  return [
+    'Limit Ledger: Phase I baseline studies of nonconformity counts (c and u charts).',
+    '',
+    'Usage: limit-ledger <command> [options]',
+    '',
+    'Commands:',
+    ...lines,
+    '',
+    'Run `limit-ledger <command> --help` for a command’s options.',
+    '',
+  ].join('\n');
+}
+
+export async function main(argv: string[]): Promise<number> {
+  const [name, ...rest] = argv;
+  if (name === undefined || name === '--help' || name === '-h' || name === 'help') {
+    process.stdout.write(helpText());
+    return name === undefined ? 2 : 0;
+  }
+  if (name === '--version') {
+    process.stdout.write('limit-ledger 0.1.0\n');
+    return 0;
+  }
+  const command = commands[name];
+  if (command === undefined) {
+    process.stderr.write(`limit-ledger: unknown command "${name}"\n\n${helpText()}`);
+    return 2;
+  }
+  const module = await command.load();
+  return module.run(rest);
+}
