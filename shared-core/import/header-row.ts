@@ -1,0 +1,39 @@
+import type { Cell } from './decoded-table.js';
+import { cellText, isBlankCell } from './decoded-table.js';
+import { columnIndex } from './column-mapping.js';
+
+/** How far down a sheet to look for the header (titles and notes often sit above it). */
+export const headerSearchRows = 50;
+
+/**
+ * The index of the header among the first rows of a table: the first row that holds every named
+ * column, else the first row that is not blank. Titles above the header are skipped that way.
+ */
+export function locateHeader(rows: Cell[][], names: string[]): number {
+  const limit = Math.min(rows.length, headerSearchRows);
+  const wanted = names.filter((name) => name !== '');
+  if (wanted.length > 0) {
+    for (let i = 0; i < limit; i++) {
+      const header = rows[i].map((cell) => cellText(cell));
+      if (wanted.every((name) => 'index' in columnIndex(header, name))) return i;
+    }
+  }
+  const first = rows.findIndex((row) => row.some((cell) => !isBlankCell(cell)));
+  return first < 0 ? 0 : first;
+}
+
+/** Header names as text; blank names get a placeholder naming their column letter. */
+export function headerNames(cells: Cell[]): string[] {
+  return cells.map((cell, index) => {
+    const text = cellText(cell).trim();
+    return text === '' ? `(column ${columnLetter(index)})` : text;
+  });
+}
+
+/** Spreadsheet column letters: 0 → A, 25 → Z, 26 → AA. */
+export function columnLetter(index: number): string {
+  let letters = '';
+  for (let n = index + 1; n > 0; n = Math.floor((n - 1) / 26))
+    letters = String.fromCharCode(65 + ((n - 1) % 26)) + letters;
+  return letters;
+}
