@@ -9,5 +9,9 @@ import type { RulePoint } from './rule-point.js';
  */
 export function findSignals(points: readonly RulePoint[], rules: readonly RuleId[]): RuleId[][] {
   const definitions = rules.map((id) => ruleCatalog[id]);
-  return points.map((_, t) => definitions.filter((rule) => rule.firesAt(points, t)).map((rule) => rule.id));
+  return points.map((_, t) => {
+    const fired: RuleId[] = [];
+    for (const rule of definitions) if (rule.firesAt(points, t)) fired.push(rule.id);
+    return fired;
+  });
 }

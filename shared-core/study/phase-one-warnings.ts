@@ -48,7 +48,7 @@ export function phaseOneWarnings(result: AnalysisResult, options: AnalysisOption
     });
   }
 
-  const expected = included.map((p) => p.units * result.rate).sort((a, b) => a - b);
+  const expected = Float64Array.from(included, (p) => p.units * result.rate).sort();
   const median = expected[Math.floor(expected.length / 2)];
   if (median < 1)
     warnings.push({

@@ -90,12 +90,17 @@ export function analyzePhaseOne(
     options.limits === 'probability'
       ? probabilityLimits(rate, units, alpha)
       : sigmaLimits(rate, units, multiplier, sigmaZ ?? 1);
-  const cache = new Map<number, CountLimits>();
-  const countLimits = observations.map((o) => {
-    let limits = cache.get(o.units);
-    if (limits === undefined) cache.set(o.units, (limits = limitsAt(o.units)));
-    return limits;
-  });
+  // Periods with the same k share their limits and false-alarm probability: compute each k once.
+  const byUnits = new Map<number, { limits: CountLimits; alarm: number }>();
+  const atUnits = (units: number) => {
+    let entry = byUnits.get(units);
+    if (entry === undefined) {
+      const limits = limitsAt(units);
+      byUnits.set(units, (entry = { limits, alarm: pointFalseAlarm(limits) }));
+    }
+    return entry;
+  };
+  const countLimits = observations.map((o) => atUnits(o.units).limits);
 
   // c chart: plotted on the count scale; u chart: on the rate scale (count limits ÷ kᵢ).
   const scale = (units: number) => (chart.value === 'c' ? 1 : 1 / units);
@@ -112,18 +117,18 @@ export function analyzePhaseOne(
     })),
     options.rules,
   );
-  const rulesAt = new Map(includedIndex.map((i, t) => [i, fired[t]]));
+  const rulesAt: string[][] = [];
+  includedIndex.forEach((i, t) => (rulesAt[i] = fired[t]));
 
   const periods: PeriodResult[] = observations.map((o, i) => {
     const limits = countLimits[i];
     const s = scale(o.units);
-    const rules = rulesAt.get(i) ?? [];
+    const rules = rulesAt[i] ?? [];
     const cause = causes.get(i);
-    return {
+    const period: PeriodResult = {
       index: i,
       label: o.label,
       row: o.row,
-      ...(o.rows ? { rows: o.rows } : {}),
       count: o.count,
       units: o.units,
       rate: o.count / o.units,
@@ -133,8 +138,10 @@ export function analyzePhaseOne(
       z: z[i],
       status: cause ? 'excluded' : rules.length > 0 ? 'signal' : 'in',
       rules,
-      ...(cause ? { cause } : {}),
     };
+    if (o.rows) period.rows = o.rows;
+    if (cause) period.cause = cause;
+    return period;
   });
 
   const includedObs = includedIndex.map((i) => observations[i]);
@@ -144,7 +151,7 @@ export function analyzePhaseOne(
     rate,
     rateKnown,
   );
-  const fap = phaseOneFap(includedIndex.map((i) => pointFalseAlarm(countLimits[i])));
+  const fap = phaseOneFap(includedIndex.map((i) => atUnits(observations[i].units).alarm));
   const garwood = poissonMeanInterval(totalCount, 0.95);
   const rateInterval = { lower: garwood.lower / totalUnits, upper: garwood.upper / totalUnits };
 

@@ -11,7 +11,7 @@ import {
   type Exclusion,
   type Observation,
 } from '../../../shared-core/study/analysis-types.js';
-import { iterationHistory } from '../../../shared-core/study/iteration-history.js';
+import { iterationHistory, iterationSnapshot } from '../../../shared-core/study/iteration-history.js';
 import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
 import { normalQuantile } from '../../../shared-core/stats/normal.js';
 import type { ImportOutcome } from '../../../shared-core/import/import-report.js';
@@ -122,9 +122,9 @@ async function analyze(argv: string[]): Promise<number> {
   const result = analyzePhaseOne(observations, exclusions, options);
   if (!result.ok)
     throw new InputError(result.findings.map((f) => describeFinding({ file, ...f })).join('\n'));
-  const steps = exclusions.length > 0 ? [[], exclusions] : [[]];
-  const history = iterationHistory(observations, steps, options);
-  const iterations = history.ok ? history.value : [];
+  // The iterations: the trial limits before any exclusion, then the result above.
+  const trial = exclusions.length > 0 ? iterationHistory(observations, [[]], options) : undefined;
+  const iterations = [...(trial?.ok ? trial.value : []), iterationSnapshot(result.value)];
 
   if (values.json) {
     process.stdout.write(`${JSON.stringify(analysisJson(result.value, outcome, iterations))}\n`);
