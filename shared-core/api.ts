@@ -93,7 +93,8 @@ export const ExclusionSchema = z.object({
 const WarningSchema = z.object({ code: z.string(), message: z.string() });
 const IntervalSchema = z.object({ lower: z.number(), upper: z.number() });
 
-export const PeriodResultSchema = z.object({
+/** Results are open objects: the engine may add fields (DESIGN.md), and they must pass through. */
+export const PeriodResultSchema = z.looseObject({
   index: z.number().int(),
   label: z.string(),
   row: z.number().int(),
@@ -110,7 +111,7 @@ export const PeriodResultSchema = z.object({
   cause: AssignableCauseSchema.optional(),
 });
 
-export const AnalysisResultSchema = z.object({
+export const AnalysisResultSchema = z.looseObject({
   chart: ChartKindSchema,
   limits: LimitsMethodSchema,
   center: z.number(),

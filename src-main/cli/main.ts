@@ -12,6 +12,10 @@ export const commands: Record<string, Command> = {
     summary: 'analyze a history of counts: limits, signals, checks (--json for programs)',
     load: () => import('./commands/analyze.js'),
   },
+  serve: {
+    summary: 'open the app in your browser, on 127.0.0.1 only',
+    load: () => import('./commands/serve.js'),
+  },
 };
 
 export function helpText(): string {

@@ -1,0 +1,304 @@
+import { z } from 'zod';
+import {
+  channels,
+  isChannelName,
+  type ChannelName,
+  type FileHandle,
+  type FilePurpose,
+  type ParsedRequestOf,
+  type ResponseOf,
+  type SavePurpose,
+  type SiteSettings,
+  type StudyView,
+} from '../../shared-core/api.js';
+import type {
+  AnalysisOptions,
+  AnalysisResult,
+  Exclusion,
+  Observation,
+} from '../../shared-core/study/analysis-types.js';
+import type { Result } from '../../shared-core/result.js';
+import type { JobRunner } from '../services/jobs/job-runner.js';
+import type { FileRegistry } from './file-registry.js';
+import { HostError } from './host-error.js';
+import type { RecoveryStore } from './recovery.js';
+
+/** How the host lets the user pick files: native dialogs in Electron, the workspace in the browser host. */
+export interface FilePicker {
+  chooseFile(purpose: FilePurpose): Promise<string | null>;
+  chooseSaveTarget(purpose: SavePurpose, suggestedName: string): Promise<string | null>;
+  /** Studies the user can open without a dialog (the workspace; recent files on the desktop). */
+  listStudies(): Promise<string[]>;
+  /** Where an export goes when no target was chosen (the web host: a download). */
+  exportDestination?(fileName: string): Promise<{ path: string; downloadUrl: string }>;
+}
+
+/** The services the channels call (plain Node; see src-main/services). */
+export interface HostServices {
+  demoStudy(): Promise<StudyView>;
+  openStudy(file: {
+    fileName: string;
+    bytes: Uint8Array;
+    path: string | null;
+  }): Promise<Result<Omit<StudyView, 'file'>>>;
+  saveStudy(
+    path: string,
+    document: unknown,
+    overwriteChanged: boolean,
+  ): Promise<
+    | { saved: true; backupKept: boolean }
+    | { saved: false; reason: 'changed-on-disk' | 'refused'; message: string }
+  >;
+  inspectData(file: {
+    fileName: string;
+    bytes: Uint8Array;
+  }): Promise<Result<{ sheets: string[]; columns: string[]; preview: string[][] }>>;
+  analyze(
+    observations: Observation[],
+    exclusions: Exclusion[],
+    options: AnalysisOptions,
+  ): Result<AnalysisResult>;
+  readSettings(): Promise<Result<SiteSettings>>;
+  writeSettings(settings: SiteSettings): Promise<SiteSettings>;
+}
+
+export interface HostContext {
+  kind: 'electron' | 'web';
+  version: string;
+  workspaceName?: string;
+  files: FileRegistry;
+  picker: FilePicker;
+  jobs: JobRunner;
+  services: HostServices;
+  recovery: RecoveryStore;
+  /** Told whenever the renderer's study gains or loses unsaved changes (the close prompt asks). */
+  onUnsaved?(unsaved: boolean): void;
+}
+
+export type Handlers = { [C in ChannelName]: (request: ParsedRequestOf<C>) => Promise<ResponseOf<C>> };
+
+/** What every transport returns for a call: the response, or an error the screens can show. */
+export type Envelope =
+  { ok: true; value: unknown } | { ok: false; error: { code: string; message: string; issues?: string[] } };
+
+/**
+ * Validates one raw call against the channel table and runs its handler. Unknown channels and
+ * malformed requests are refused before any handler runs; errors other than HostError are reported
+ * without their details.
+ */
+export async function dispatch(handlers: Handlers, channel: string, raw: unknown): Promise<Envelope> {
+  if (!isChannelName(channel)) {
+    return {
+      ok: false,
+      error: { code: 'unknown-channel', message: `there is no channel "${channel.slice(0, 60)}"` },
+    };
+  }
+  const parsed = (channels[channel].request as z.ZodType).safeParse(raw);
+  if (!parsed.success) {
+    const issues = parsed.error.issues.map(
+      (issue) => `${issue.path.join('.') || 'request'}: ${issue.message}`,
+    );
+    return {
+      ok: false,
+      error: { code: 'bad-request', message: `${channel}: the request is malformed`, issues },
+    };
+  }
+  try {
+    const handler = handlers[channel] as (request: unknown) => Promise<unknown>;
+    return { ok: true, value: await handler(parsed.data) };
+  } catch (error) {
+    if (error instanceof HostError) {
+      return { ok: false, error: { code: error.code, message: error.message, issues: error.issues } };
+    }
+    return {
+      ok: false,
+      error: { code: 'internal', message: `${channel} failed unexpectedly; the log has the details` },
+    };
+  }
+}
+
+const purposeOfJob = { importData: 'data', exportPacket: 'packet', signStudy: 'key' } as const;
+
+export function createHandlers(context: HostContext): Handlers {
+  const { files, picker, jobs, services, recovery } = context;
+  let currentStudyName: string | null = null;
+
+  const withFile = (view: Omit<StudyView, 'file'>, file: FileHandle | null): StudyView => ({ ...view, file });
+
+  return {
+    async hostInfo() {
+      return {
+        host: context.kind,
+        version: context.version,
+        ...(context.workspaceName ? { workspace: context.workspaceName } : {}),
+      };
+    },
+
+    async demoStudy() {
+      currentStudyName = null;
+      return services.demoStudy();
+    },
+
+    async chooseFile({ purpose }) {
+      const path = await picker.chooseFile(purpose);
+      return path === null ? null : files.issuePath(path, purpose, purpose === 'study');
+    },
+
+    async chooseSaveTarget({ purpose, suggestedName }) {
+      const path = await picker.chooseSaveTarget(purpose, suggestedName);
+      return path === null ? null : files.issuePath(path, purpose, true);
+    },
+
+    async listWorkspace() {
+      const paths = await picker.listStudies();
+      return { files: await Promise.all(paths.map((path) => files.issuePath(path, 'study', true))) };
+    },
+
+    async uploadFile({ purpose, fileName, bytes }) {
+      return files.issueBytes(fileName, new Uint8Array(Buffer.from(bytes, 'base64')), purpose);
+    },
+
+    async openStudy({ file }) {
+      const source = await files.read(file);
+      const opened = await services.openStudy(source);
+      if (!opened.ok) return opened;
+      currentStudyName = source.fileName;
+      const entry = files.get(file);
+      const handle = entry.path !== null ? await files.issuePath(entry.path, 'study', true) : null;
+      return { ok: true as const, value: withFile(opened.value, handle) };
+    },
+
+    async saveStudy({ target, document, overwriteChanged }) {
+      const path = files.writablePath(target);
+      const outcome = await services.saveStudy(path, document, overwriteChanged);
+      if (!outcome.saved) return outcome;
+      const file = await files.issuePath(path, 'study', true);
+      currentStudyName = file.fileName;
+      context.onUnsaved?.(false);
+      return { saved: true as const, file, backupKept: outcome.backupKept };
+    },
+
+    async setUnsaved({ unsaved }) {
+      context.onUnsaved?.(unsaved);
+      return {};
+    },
+
+    async autosave({ document }) {
+      await recovery.save(document, currentStudyName);
+      return {};
+    },
+
+    async listRecovery() {
+      const leftovers = await recovery.leftovers();
+      return {
+        copies: await Promise.all(
+          leftovers.map(async (entry) => ({
+            recovery: await files.issuePath(entry.path, 'study', false),
+            original: entry.original,
+            savedAt: entry.savedAt,
+          })),
+        ),
+      };
+    },
+
+    async discardRecovery({ file }) {
+      const entry = files.get(file);
+      if (entry.path !== null) await recovery.discard(entry.path);
+      files.release(file);
+      return {};
+    },
+
+    async inspectData({ file }) {
+      const source = await files.read(file);
+      const inspected = await services.inspectData(source);
+      if (!inspected.ok) return inspected;
+      return {
+        ok: true as const,
+        value: { file: { handle: file, fileName: source.fileName }, ...inspected.value },
+      };
+    },
+
+    async importData({ file, mapping }) {
+      const source = await files.read(file);
+      const jobId = jobs.start('importData', {
+        fileName: source.fileName,
+        bytes: source.bytes,
+        request: mapping,
+      });
+      return { jobId };
+    },
+
+    async analyze({ observations, exclusions, options }) {
+      // AnalysisResult is an interface; the schema's open object adds an index signature.
+      return services.analyze(observations, exclusions, options) as ResponseOf<'analyze'>;
+    },
+
+    async exportPacket({ document, format, target }) {
+      const fileName = `${(currentStudyName ?? 'study').replace(/\.ledger$/i, '')}${format === 'pdf' ? '.pdf' : '.xlsx'}`;
+      let path: string;
+      let downloadUrl: string | undefined;
+      if (target !== undefined) path = files.writablePath(target);
+      else if (picker.exportDestination) ({ path, downloadUrl } = await picker.exportDestination(fileName));
+      else throw new HostError('no-target', 'choose where to save the packet first');
+      const jobId = jobs.start(
+        'exportPacket',
+        { document, format },
+        {
+          outputTarget: path,
+          finish: async () => ({
+            file: await files.issuePath(path, purposeOfJob.exportPacket, false),
+            ...(downloadUrl ? { downloadUrl } : {}),
+          }),
+        },
+      );
+      return { jobId };
+    },
+
+    async signStudy({ document, meaning, printedName, role, key, passphrase }) {
+      const keyFile = await files.read(key);
+      // The key's bytes and the passphrase go to the worker and live only as long as the job.
+      const jobId = jobs.start('signStudy', {
+        document,
+        meaning,
+        printedName,
+        role,
+        key: keyFile,
+        passphrase,
+      });
+      void jobs.settled(jobId).then(() => {
+        try {
+          if (files.get(key).bytes !== null) files.release(key);
+        } catch {
+          // Already released.
+        }
+      });
+      return { jobId };
+    },
+
+    async cancelJob({ jobId }) {
+      return { cancelled: await jobs.cancel(jobId) };
+    },
+
+    async jobStatus({ jobId }) {
+      const status = jobs.status(jobId);
+      if (status === undefined) throw new HostError('unknown-job', 'there is no such job');
+      return status;
+    },
+
+    async siteSettings() {
+      const settings = await services.readSettings();
+      if (!settings.ok) {
+        throw new HostError(
+          'bad-settings',
+          'the site settings file is not valid',
+          settings.findings.map((finding) => `${finding.column ?? ''} ${finding.message}`.trim()),
+        );
+      }
+      return settings.value;
+    },
+
+    async saveSiteSettings(settings) {
+      return services.writeSettings(settings);
+    },
+  };
+}

@@ -1,0 +1,65 @@
+import { randomBytes } from 'node:crypto';
+import { mkdir, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+
+const suffix = '.recovery.ledger';
+
+export interface RecoveryEntry {
+  path: string;
+  /** The study's own file name, when it had one. */
+  original: string | null;
+  savedAt: string;
+}
+
+/**
+ * Autosave copies for crash recovery. Each run writes its own copy (named for the study and the
+ * run) every time the renderer autosaves; a clean close removes it. Copies left by an earlier run
+ * that did not close cleanly are offered on the next start.
+ */
+export class RecoveryStore {
+  private readonly run = randomBytes(6).toString('hex');
+  private current: string | null = null;
+
+  constructor(private readonly folder: string) {}
+
+  async save(document: unknown, original: string | null): Promise<void> {
+    await mkdir(this.folder, { recursive: true, mode: 0o700 });
+    const stem = (original ?? 'untitled').replace(/\.ledger$/i, '').replace(/[^\p{L}\p{N} _.-]/gu, '_');
+    const path = join(this.folder, `${stem}.${this.run}${suffix}`);
+    const temporary = `${path}.tmp`;
+    await writeFile(temporary, JSON.stringify(document), { mode: 0o600 });
+    await rename(temporary, path);
+    if (this.current !== null && this.current !== path) await rm(this.current, { force: true });
+    this.current = path;
+  }
+
+  /** Copies from earlier runs, newest first. */
+  async leftovers(): Promise<RecoveryEntry[]> {
+    const names = await readdir(this.folder).catch(() => [] as string[]);
+    const entries: RecoveryEntry[] = [];
+    for (const name of names) {
+      if (!name.endsWith(suffix) || name.includes(`.${this.run}${suffix}`)) continue;
+      const path = join(this.folder, name);
+      const info = await stat(path).catch(() => null);
+      if (!info) continue;
+      const stem = name.slice(0, -suffix.length).replace(/\.[0-9a-f]{12}$/, '');
+      entries.push({
+        path,
+        original: stem === 'untitled' ? null : `${stem}.ledger`,
+        savedAt: info.mtime.toISOString(),
+      });
+    }
+    return entries.sort((a, b) => b.savedAt.localeCompare(a.savedAt));
+  }
+
+  async discard(path: string): Promise<void> {
+    if (!path.startsWith(this.folder) || !path.endsWith(suffix)) return;
+    await rm(path, { force: true });
+  }
+
+  /** A clean close: this run's copy is no longer needed. */
+  async closeCleanly(): Promise<void> {
+    if (this.current !== null) await rm(this.current, { force: true });
+    this.current = null;
+  }
+}
