@@ -1,0 +1,28 @@
+/**
+ * Numbers and dates in the user's locale. Control limits and rates are shown to a few significant
+ * digits (enough to tell stepped limits apart, not so many that they suggest false precision).
+ */
+export function formatNumber(value: number | null, locale?: string, significant = 4): string {
+  if (value === null) return 'none';
+  if (!Number.isFinite(value)) return String(value);
+  if (Number.isInteger(value) && Math.abs(value) < 1e9) return new Intl.NumberFormat(locale).format(value);
+  return new Intl.NumberFormat(locale, { maximumSignificantDigits: significant }).format(value);
+}
+
+export function formatPercent(value: number, locale?: string, significant = 3): string {
+  return new Intl.NumberFormat(locale, { style: 'percent', maximumSignificantDigits: significant }).format(
+    value,
+  );
+}
+
+/** An ISO date or date-time in the user's locale; anything else is shown as it was written. */
+export function formatDate(iso: string | undefined, locale?: string): string {
+  if (!iso) return '';
+  const dateOnly = /^\d{4}-\d{2}-\d{2}$/.test(iso);
+  const time = Date.parse(dateOnly ? `${iso}T00:00:00Z` : iso);
+  if (Number.isNaN(time)) return iso;
+  return new Intl.DateTimeFormat(
+    locale,
+    dateOnly ? { dateStyle: 'medium', timeZone: 'UTC' } : { dateStyle: 'medium', timeStyle: 'short' },
+  ).format(time);
+}

@@ -1,0 +1,12 @@
+/** DESIGN.md's visual language; every graphic is at least 3:1 against the background. */
+export const colors = {
+  background: '#FAFAF7',
+  ink: '#1F2933',
+  center: '#3E5C76',
+  limit: '#0F766E',
+  signal: '#B45309',
+  excluded: '#66717F',
+  grid: '#E4E7EB',
+  path: '#9AA5B1',
+  selection: 'rgba(62, 92, 118, 0.12)',
+} as const;
