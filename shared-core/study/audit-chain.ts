@@ -65,8 +65,9 @@ export function sealStudy(study: Omit<Study, 'header'> & { header?: StudyHeader 
  * is recorded as it read and flagged by verifyChain, never refused: the decision still happened.
  */
 export function appendEvent(study: Study, draft: EventDraft, now: string): Study {
+  // A copy, so that later changes to objects the caller still holds cannot reach the record.
   const linked = {
-    ...draft,
+    ...(JSON.parse(JSON.stringify(draft)) as EventDraft),
     seq: study.events.length + 1,
     time: now,
     clock: 'local' as const,

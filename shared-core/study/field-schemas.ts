@@ -18,3 +18,12 @@ export const sha256HexSchema = z.string().regex(sha256Pattern, 'expected 64 lowe
 export const jsonValueSchema = z.json();
 export const jsonObjectSchema = z.record(z.string(), jsonValueSchema);
 export type JsonObject = z.infer<typeof jsonObjectSchema>;
+
+/** `events[3].payload.cause` from zod's ['events', 3, 'payload', 'cause']. */
+export function fieldPath(path: readonly PropertyKey[]): string {
+  return (
+    path
+      .map((part, i) => (typeof part === 'number' ? `[${part}]` : `${i > 0 ? '.' : ''}${String(part)}`))
+      .join('') || '(the document)'
+  );
+}

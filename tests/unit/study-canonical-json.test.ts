@@ -3,10 +3,11 @@ import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import canonicalize from 'canonicalize';
 import { canonicalJson } from '../../shared-core/study/canonical-json.js';
 
 const require = createRequire(import.meta.url);
+// The canonicalize package (RFC 8785, by one of its authors) is the independent reference.
+const canonicalize = require('canonicalize') as (value: unknown) => string | undefined;
 const referenceData = join(dirname(require.resolve('canonicalize')), '..', 'test', 'testdata');
 
 const fromBits = (hex: string): number => {
