@@ -184,18 +184,29 @@ export const SaveStudyResponse = z.discriminatedUnion('saved', [
 
 // ---- Import ----------------------------------------------------------------------------------
 
-/** Which columns hold what; the import service validates the details against the file. */
-export const ImportMapping = z
-  .object({
-    count: z.string().min(1).max(500),
-    units: z.string().max(500).optional(),
-    label: z.string().max(500).optional(),
-    date: z.string().max(500).optional(),
-    sheet: z.string().max(500).optional(),
-    unitName: z.string().max(200).optional(),
-    skipInvalid: z.boolean().optional(),
-  })
-  .catchall(z.unknown());
+/**
+ * Which columns hold what and how to read them (the import service's ImportRequest); the service
+ * checks the names against the file's header and reports every problem with its row and column.
+ */
+export const ImportMapping = z.strictObject({
+  count: z.string().min(1).max(500),
+  units: z.string().max(500).optional(),
+  label: z.string().max(500).optional(),
+  date: z.string().max(500).optional(),
+  decimal: z.enum(['comma', 'point']).optional(),
+  dateOrder: z.enum(['dmy', 'mdy']).optional(),
+  inspectionUnit: z.string().max(200).optional(),
+  delimiter: z.enum([',', ';', '\t', '|']).optional(),
+  encoding: z.enum(['utf-8', 'utf-16le', 'utf-16be', 'windows-1252']).optional(),
+  sheet: z.string().max(500).optional(),
+  events: z
+    .strictObject({
+      period: z.enum(['lot', 'shift', 'day', 'week']),
+      time: z.string().min(1).max(500),
+      category: z.string().max(500).optional(),
+    })
+    .optional(),
+});
 
 export const ImportRequest = z.object({ file: FileHandleId, mapping: ImportMapping });
 
@@ -207,15 +218,33 @@ export const InspectDataResponse = z.object({
   preview: z.array(z.array(z.string())),
 });
 
-/** What an import produced: a study ready to review, or the findings that stopped it. */
-export const ImportOutcome = z.object({
-  study: StudyView.nullable(),
-  /** Every rejected or changed cell. */
-  report: z.array(FindingSchema),
-  rejected: z.array(
-    z.object({ row: z.number().int(), column: z.string(), value: z.string(), message: z.string() }),
-  ),
+const RejectionSchema = z.object({
+  row: z.number().int(),
+  column: z.string(),
+  value: z.string(),
+  message: z.string(),
 });
+
+/**
+ * What an import produced (shared-core/import/import-report.ts): the accepted periods, every
+ * rejected cell, the no-production periods and the full report; or the findings that stopped it.
+ */
+export const ImportOutcome = resultOf(
+  z.looseObject({
+    observations: z.array(ObservationSchema),
+    rejected: z.array(RejectionSchema),
+    noProduction: z.array(
+      z.looseObject({ label: z.string(), row: z.number().int(), count: z.number(), units: z.number() }),
+    ),
+    report: z.looseObject({
+      file: z.string(),
+      sha256: z.string().nullable(),
+      rowsRead: z.number().int(),
+      accepted: z.number().int(),
+      rejected: z.array(RejectionSchema),
+    }),
+  }),
+);
 
 // ---- Packet, signing -------------------------------------------------------------------------
 

@@ -1,4 +1,5 @@
 import type { StudyView } from '../../shared-core/api.js';
+import { analyzePhaseOne } from '../../shared-core/study/phase-one.js';
 import { readSiteSettings, writeSiteSettings } from '../services/site-settings.js';
 import type { HostServices } from './host-handlers.js';
 import { HostError } from './host-error.js';
@@ -24,9 +25,7 @@ export function nodeHostServices(folders: { siteSettings: string }): HostService
     async inspectData() {
       return unavailable('inspecting a data file');
     },
-    analyze() {
-      return unavailable('analysis on the host');
-    },
+    analyze: (observations, exclusions, options) => analyzePhaseOne(observations, exclusions, options),
     readSettings: () => readSiteSettings(folders.siteSettings),
     writeSettings: (settings) => writeSiteSettings(folders.siteSettings, settings),
   };

@@ -92,13 +92,24 @@ const samples: Record<ChannelName, { request: unknown; response: unknown; result
   importData: {
     request: {
       file: file.handle,
-      mapping: { count: 'defects', units: 'panels', label: 'lot', decimal: ',' },
+      mapping: { count: 'defects', units: 'panels', label: 'lot', decimal: 'comma' },
     },
     response: { jobId },
     result: {
-      study,
-      report: [],
-      rejected: [{ row: 7, column: 'defects', value: '-1', message: 'negative' }],
+      ok: true,
+      value: {
+        observations: study.observations,
+        rejected: [{ row: 7, column: 'defects', value: '-1', message: 'negative' }],
+        noProduction: [{ label: 'W9', row: 9, count: 0, units: 0 }],
+        report: {
+          file: 'counts.csv',
+          sha256: null,
+          rowsRead: 3,
+          accepted: 1,
+          rejected: [],
+          settings: { headerRow: 1 },
+        },
+      },
     },
   },
   analyze: {

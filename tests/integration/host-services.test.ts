@@ -1,0 +1,100 @@
+import { mkdtemp, mkdir, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { analyzePhaseOne } from '../../shared-core/study/phase-one.js';
+import { startBrowserHost, type BrowserHost } from '../../src-main/web/browser-host.js';
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- replies are checked field by field
+type Loose = any;
+
+/** The real services behind the channels, reached the way the page reaches them. */
+describe('the browser host with its real services', () => {
+  let host: BrowserHost;
+  let root: string;
+  const call = async (channel: string, payload: unknown) => {
+    const response = await fetch(`${host.origin}/api/${channel}`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', authorization: `Bearer ${host.session.token}` },
+      body: JSON.stringify(payload),
+    });
+    return (await response.json()) as {
+      ok: boolean;
+      value?: Loose;
+      error?: { code: string; message: string };
+    };
+  };
+
+  beforeAll(async () => {
+    root = await mkdtemp(join(tmpdir(), 'll-host-real-'));
+    await mkdir(join(root, 'renderer'));
+    await writeFile(join(root, 'renderer', 'index.html'), '<!doctype html>');
+    host = await startBrowserHost({
+      workspace: join(root, 'ws'),
+      dataFolder: join(root, 'data'),
+      rendererDir: join(root, 'renderer'),
+    });
+  });
+  afterAll(async () => {
+    await host.close();
+    await rm(root, { recursive: true, force: true });
+  });
+
+  it('imports an uploaded CSV in a worker job and reports every rejected cell', async () => {
+    // Invented counts; row 4 carries a fractional count that must be rejected, not dropped.
+    const csv = 'lot,defects,panels\nA1,3,2\nA2,2.5,2\nA3,4,2\nA4,1,2\n';
+    const uploaded = await call('uploadFile', {
+      purpose: 'data',
+      fileName: 'counts.csv',
+      bytes: Buffer.from(csv).toString('base64'),
+    });
+    const started = await call('importData', {
+      file: uploaded.value.handle,
+      mapping: { count: 'defects', units: 'panels', label: 'lot' },
+    });
+    expect(started.ok).toBe(true);
+    const final = await host.parts.jobs.settled(started.value.jobId);
+    expect(final?.state).toBe('done');
+    const outcome = (final as { result: Loose }).result;
+    expect(outcome.ok).toBe(true);
+    expect(outcome.value.observations.map((each: { label: string }) => each.label)).toEqual([
+      'A1',
+      'A3',
+      'A4',
+    ]);
+    expect(outcome.value.rejected).toEqual([
+      expect.objectContaining({ row: 3, column: 'defects', value: '2.5' }),
+    ]);
+    const status = await call('jobStatus', { jobId: started.value.jobId });
+    expect(status.value.state).toBe('done');
+  });
+
+  it('recomputes on the host with the same core the renderer uses', async () => {
+    const observations = [3, 5, 2, 4, 6, 1, 4].map((count, index) => ({
+      label: `P${index + 1}`,
+      row: index + 2,
+      count,
+      units: 1,
+    }));
+    const options = { limits: 'sigma' as const, multiplier: 3, alpha: 0.0027, rules: ['beyond' as const] };
+    const reply = await call('analyze', { observations, exclusions: [], options });
+    expect(reply.ok).toBe(true);
+    expect(reply.value).toEqual(JSON.parse(JSON.stringify(analyzePhaseOne(observations, [], options))));
+  });
+
+  it('starts with the default site settings and keeps a saved change', async () => {
+    const settings = await call('siteSettings', {});
+    expect(settings.value.defaults).toEqual({
+      limits: 'sigma',
+      multiplier: 3,
+      alpha: 0.0027,
+      rules: ['beyond'],
+    });
+    const saved = await call('saveSiteSettings', {
+      ...settings.value,
+      causeCategories: ['Resin lot', 'Press'],
+    });
+    expect(saved.ok).toBe(true);
+    expect((await call('siteSettings', {})).value.causeCategories).toEqual(['Resin lot', 'Press']);
+  });
+});
