@@ -1,0 +1,469 @@
+import { createRequire } from 'node:module';
+import PDFDocument from 'pdfkit';
+import { layoutChart } from './chart-layout.js';
+import { drawChartOnPdf, type PdfDoc } from './chart-pdf.js';
+import { limitsTable } from './limits-table.js';
+import { factsFileName, type PacketFacts } from './packet-facts.js';
+import type { PacketContent } from './packet-content.js';
+import { cautions, formulaWords, methodWords, shown, shownProbability } from './packet-words.js';
+import { palette } from './chart-layout.js';
+
+export type Paper = 'a4' | 'letter';
+
+export interface PdfRequest {
+  paper: Paper;
+  facts: PacketFacts;
+  /** Called with 0…1 as pages are laid out. */
+  onProgress?: (fraction: number) => void;
+}
+
+const require = createRequire(import.meta.url);
+// DejaVu Sans (free licence, npm dejavu-fonts-ttf), embedded so text extracts and prints the same everywhere.
+const fontFiles = {
+  regular: require.resolve('dejavu-fonts-ttf/ttf/DejaVuSans.ttf'),
+  bold: require.resolve('dejavu-fonts-ttf/ttf/DejaVuSans-Bold.ttf'),
+};
+const fonts = { regular: 'Body', bold: 'Body-Bold' };
+const margin = 50;
+
+/** The approval packet as an (unsigned) PDF in memory; pdf-signature.ts signs it. */
+export function buildPacketPdf(content: PacketContent, request: PdfRequest): Promise<Buffer> {
+  const doc = new PDFDocument({
+    size: request.paper === 'a4' ? 'A4' : 'LETTER',
+    margins: { top: margin + 14, bottom: margin + 10, left: margin, right: margin },
+    bufferPages: true,
+    autoFirstPage: true,
+    pdfVersion: '1.7',
+    lang: 'en-US',
+    displayTitle: true,
+    info: {
+      Title: `Approval packet: ${content.title}`,
+      Subject: `Control limits, study ${content.studyId}, revision ${content.revision.number}`,
+      Creator: 'Limit Ledger',
+      Producer: 'Limit Ledger',
+    },
+  });
+  const chunks: Buffer[] = [];
+  doc.on('data', (chunk: Buffer) => chunks.push(chunk));
+  const done = new Promise<Buffer>((resolve, reject) => {
+    doc.on('end', () => resolve(Buffer.concat(chunks)));
+    doc.on('error', reject);
+  });
+  doc.registerFont(fonts.regular, fontFiles.regular);
+  doc.registerFont(fonts.bold, fontFiles.bold);
+  doc.font(fonts.regular).fontSize(9.5).fillColor(palette.ink);
+
+  const writer = new PageWriter(doc);
+  const steps: ((w: PageWriter, c: PacketContent, r: PdfRequest) => void)[] = [
+    cover,
+    chartPage,
+    approvedLimits,
+    dataTable,
+    exclusionLog,
+    iterationHistory,
+    checks,
+    signOffBlock,
+    cautionPage,
+  ];
+  steps.forEach((step, i) => {
+    step(writer, content, request);
+    request.onProgress?.((i + 1) / (steps.length + 1));
+  });
+
+  const factsBytes = Buffer.from(JSON.stringify(request.facts, null, 2), 'utf8');
+  doc.file(factsBytes, {
+    name: factsFileName,
+    type: 'application/json',
+    description: 'What this packet states, for verify',
+  });
+  if (content.studyDocument) {
+    doc.file(Buffer.from(content.studyDocument.bytes), {
+      name: content.studyDocument.fileName,
+      type: 'application/json',
+      description: 'The study document: observations, decisions, audit chain and sign-offs',
+    });
+  }
+  stampEveryPage(doc, content);
+  doc.end();
+  return done;
+}
+
+/** Running text with headings and simple tables that break across pages and repeat their header. */
+class PageWriter {
+  constructor(readonly doc: PdfDoc) {}
+
+  get width(): number {
+    return this.doc.page.width - this.doc.page.margins.left - this.doc.page.margins.right;
+  }
+
+  get bottom(): number {
+    return this.doc.page.height - this.doc.page.margins.bottom;
+  }
+
+  heading(text: string): void {
+    if (this.doc.y > this.bottom - 60) this.doc.addPage();
+    this.doc
+      .moveDown(0.6)
+      .font(fonts.bold)
+      .fontSize(13)
+      .fillColor(palette.center)
+      .text(text, this.doc.page.margins.left);
+    this.doc.moveDown(0.3).font(fonts.regular).fontSize(9.5).fillColor(palette.ink);
+  }
+
+  paragraph(text: string, size = 9.5): void {
+    this.doc
+      .font(fonts.regular)
+      .fontSize(size)
+      .fillColor(palette.ink)
+      .text(text, this.doc.page.margins.left, undefined, { width: this.width });
+    this.doc.moveDown(0.3);
+  }
+
+  /** Label: value lines. */
+  facts(rows: [string, string][]): void {
+    const labelWidth = 140;
+    for (const [label, value] of rows) {
+      const y = this.doc.y;
+      const height = Math.max(
+        this.doc
+          .font(fonts.regular)
+          .fontSize(9.5)
+          .heightOfString(value, { width: this.width - labelWidth }),
+        12,
+      );
+      if (y + height > this.bottom) this.doc.addPage();
+      const top = this.doc.y;
+      this.doc
+        .font(fonts.bold)
+        .fontSize(9)
+        .text(label, this.doc.page.margins.left, top, { width: labelWidth - 8 });
+      this.doc
+        .font(fonts.regular)
+        .fontSize(9.5)
+        .text(value, this.doc.page.margins.left + labelWidth, top, { width: this.width - labelWidth });
+      this.doc.y = Math.max(this.doc.y, top + height) + 2;
+    }
+    this.doc.x = this.doc.page.margins.left;
+  }
+
+  table(
+    columns: { header: string; width: number; align?: 'left' | 'right' }[],
+    rows: string[][],
+    size = 7.5,
+  ): void {
+    const total = columns.reduce((sum, c) => sum + c.width, 0);
+    const scale = this.width / total;
+    const widths = columns.map((c) => c.width * scale);
+    const rowHeight = size + 4.5;
+    const left = this.doc.page.margins.left;
+    const header = () => {
+      let x = left;
+      const y = this.doc.y;
+      this.doc.rect(left, y - 1.5, this.width, rowHeight).fill('#E9ECEE');
+      this.doc.font(fonts.bold).fontSize(size).fillColor(palette.ink);
+      columns.forEach((c, i) => {
+        this.doc.text(c.header, x + 2, y + 1, {
+          width: widths[i]! - 4,
+          align: c.align ?? 'left',
+          lineBreak: false,
+          ellipsis: true,
+          height: rowHeight,
+        });
+        x += widths[i]!;
+      });
+      this.doc.y = y + rowHeight;
+    };
+    if (this.doc.y + rowHeight * 2 > this.bottom) this.doc.addPage();
+    header();
+    this.doc.font(fonts.regular).fontSize(size);
+    rows.forEach((row, r) => {
+      if (this.doc.y + rowHeight > this.bottom) {
+        this.doc.addPage();
+        header();
+        this.doc.font(fonts.regular).fontSize(size);
+      }
+      const y = this.doc.y;
+      if (r % 2 === 1) this.doc.rect(left, y - 1.5, this.width, rowHeight).fill('#F2F2EC');
+      this.doc.fillColor(palette.ink);
+      let x = left;
+      row.forEach((cell, i) => {
+        this.doc.text(cell, x + 2, y + 1, {
+          width: widths[i]! - 4,
+          align: columns[i]!.align ?? 'left',
+          lineBreak: false,
+          ellipsis: true,
+          height: rowHeight,
+        });
+        x += widths[i]!;
+      });
+      this.doc.y = y + rowHeight;
+    });
+    this.doc.x = left;
+    this.doc.moveDown(0.5);
+  }
+}
+
+function cover(w: PageWriter, c: PacketContent, r: PdfRequest): void {
+  const doc = w.doc;
+  doc.font(fonts.bold).fontSize(20).fillColor(palette.center).text('Approval packet: control limits');
+  doc.moveDown(0.2).font(fonts.regular).fontSize(12).fillColor(palette.ink).text(c.title);
+  if (c.identity.demo) {
+    doc.moveDown(0.5);
+    w.paragraph('DEMONSTRATION: the plant, parts and counts in this study are invented.', 10);
+  }
+  w.heading('Study');
+  const result = c.result;
+  const excluded = result.periods.filter((p) => p.status === 'excluded').length;
+  w.facts([
+    ['Study id', c.studyId],
+    ['Part', c.identity.part || '(not given)'],
+    ['Process step', c.identity.processStep || '(not given)'],
+    ['Nonconformity counted', c.identity.characteristic || '(not given)'],
+    ['Inspection unit', c.identity.inspectionUnit || '(not given)'],
+    ['Owner', c.identity.owner || '(not given)'],
+    ...(c.identity.site ? ([['Site', c.identity.site]] as [string, string][]) : []),
+    ['Data source', c.source.file],
+    ['Source SHA-256', c.source.sha256],
+    ['Periods', `${result.periods.length} (${result.m} included, ${excluded} excluded)`],
+    ['Σx (included)', String(result.totals.count)],
+    ['Σk (included)', shown(result.totals.units, 10)],
+    ['Revision', `${c.revision.number} (${c.revision.status})`],
+    ['Effective date', c.revision.effectiveDate ?? '(not set)'],
+    ['Review date', c.revision.reviewDate ?? '(not set)'],
+    ['Packet made', c.generatedAt],
+    ['Workbook SHA-256', r.facts.workbookSha256 ?? '(no workbook exported with this packet)'],
+    ['Study file SHA-256', r.facts.studySha256 ?? '(study not embedded)'],
+  ]);
+  w.heading('Result');
+  w.facts([
+    ['Method', methodWords(result)],
+    [
+      'Center line',
+      `${shown(result.center, 6)} ${result.chart === 'u' ? 'per inspection unit' : 'per period'}`,
+    ],
+    ['Control limits', limitsSummary(c)],
+    ['Stable', result.stable ? 'yes: no included period signals' : 'no: included periods still signal'],
+  ]);
+  w.heading('Reaction plan');
+  w.paragraph(c.revision.reactionPlan?.trim() || '(no reaction plan recorded)');
+  w.heading('Caution');
+  w.paragraph(cautions[0]!);
+}
+
+function limitsSummary(c: PacketContent): string {
+  const table = limitsTable(c.result);
+  if (table.length === 1) return `UCL ${shown(table[0]!.ucl, 6)}, LCL ${shown(table[0]!.lcl, 6)}`;
+  return `stepped with the number of units: ${table.length} values of k, see "Approved limits"`;
+}
+
+function chartPage(w: PageWriter, c: PacketContent): void {
+  w.doc.addPage();
+  w.heading('Chart');
+  const height = Math.min(360, w.width * 0.68);
+  const drawing = layoutChart(
+    c.result,
+    {
+      inspectionUnit: c.identity.inspectionUnit || 'inspection unit',
+      title: `${c.result.chart} chart: ${c.title}`,
+    },
+    w.width,
+    height,
+  );
+  drawChartOnPdf(w.doc, drawing, w.doc.page.margins.left, w.doc.y, fonts);
+  w.doc.y += height + 10;
+  w.paragraph(
+    'Center line solid; control limits dashed (stepped where the number of inspection units changes; no line where there is no lower limit). Dots: periods in control. Triangles: periods that signal. Crossed squares: periods excluded for an assignable cause; they stay on the chart but out of the estimate.',
+    8.5,
+  );
+}
+
+function approvedLimits(w: PageWriter, c: PacketContent): void {
+  w.heading('Approved limits');
+  w.paragraph(methodWords(c.result));
+  for (const line of formulaWords(c.result)) w.paragraph(line);
+  const scale = c.result.chart === 'u' ? 'rate per unit' : 'count';
+  w.table(
+    [
+      { header: 'Units k', width: 2, align: 'right' },
+      { header: `LCL (${scale})`, width: 3, align: 'right' },
+      { header: `Center (${scale})`, width: 3, align: 'right' },
+      { header: `UCL (${scale})`, width: 3, align: 'right' },
+    ],
+    limitsTable(c.result).map((row) => [
+      shown(row.units, 8),
+      shown(row.lcl, 8),
+      shown(c.result.chart === 'u' ? c.result.center : c.result.rate * row.units, 8),
+      shown(row.ucl, 8),
+    ]),
+    8.5,
+  );
+}
+
+function dataTable(w: PageWriter, c: PacketContent): void {
+  w.heading('Data');
+  w.table(
+    [
+      { header: '#', width: 0.7, align: 'right' },
+      { header: 'Period', width: 2.4 },
+      { header: 'Row', width: 0.9, align: 'right' },
+      { header: 'Count', width: 1.1, align: 'right' },
+      { header: 'Units', width: 1.1, align: 'right' },
+      { header: 'Rate', width: 1.3, align: 'right' },
+      { header: 'LCL', width: 1.3, align: 'right' },
+      { header: 'UCL', width: 1.3, align: 'right' },
+      { header: 'Status', width: 1.2 },
+      { header: 'Rules', width: 2.2 },
+    ],
+    c.result.periods.map((p, i) => [
+      String(i + 1),
+      p.label,
+      String(p.row),
+      String(p.count),
+      shown(p.units, 8),
+      shown(p.rate, 5),
+      shown(p.lcl, 6),
+      shown(p.ucl, 6),
+      p.status,
+      p.rules.join(', '),
+    ]),
+  );
+}
+
+function exclusionLog(w: PageWriter, c: PacketContent): void {
+  w.heading('Exclusion log');
+  if (c.exclusions.length === 0) return w.paragraph('No period is excluded.');
+  w.table(
+    [
+      { header: 'Period', width: 1.6 },
+      { header: 'Cause', width: 1.6 },
+      { header: 'Description', width: 3.6 },
+      { header: 'Reference', width: 1.4 },
+      { header: 'Who', width: 1.4 },
+      { header: 'When', width: 2 },
+    ],
+    c.exclusions.map((e) => [
+      e.label,
+      e.cause.category,
+      e.cause.description,
+      e.cause.reference ?? '',
+      e.who,
+      e.when,
+    ]),
+  );
+}
+
+function iterationHistory(w: PageWriter, c: PacketContent): void {
+  w.heading('Iteration history');
+  if (c.iterations.length === 0) return w.paragraph('No iterations recorded.');
+  w.table(
+    [
+      { header: 'Step', width: 0.8, align: 'right' },
+      { header: 'Excluded', width: 3 },
+      { header: 'Center', width: 1.4, align: 'right' },
+      { header: 'LCL at k̄', width: 1.4, align: 'right' },
+      { header: 'UCL at k̄', width: 1.4, align: 'right' },
+      { header: 'Signals', width: 3 },
+    ],
+    c.iterations.map((it, i) => [
+      String(i + 1),
+      it.excluded.join(', ') || '—',
+      shown(it.center, 6),
+      shown(it.lcl, 6),
+      shown(it.ucl, 6),
+      it.signals.join(', ') || 'none',
+    ]),
+  );
+}
+
+function checks(w: PageWriter, c: PacketContent): void {
+  const r = c.result;
+  w.heading('Checks');
+  w.facts([
+    ['Method and why', methodWords(r)],
+    [
+      'Dispersion',
+      `D = Σ(xᵢ − kᵢū)²/(kᵢū) = ${shown(r.dispersion.statistic, 6)} on ${r.dispersion.df} degrees of freedom; P(χ² ≥ D) = ${shownProbability(r.dispersion.pOver)} (over-dispersion), P(χ² ≤ D) = ${shownProbability(r.dispersion.pUnder)} (under-dispersion). ${r.dispersion.smallExpected} included periods expect fewer than 5 nonconformities. ${r.dispersion.advice}`,
+    ],
+    [
+      'Sufficiency',
+      `${r.m} included periods, Σx = ${r.totals.count} over Σk = ${shown(r.totals.units, 10)} units; exact (Garwood) 95 % interval for the rate: ${shown(r.rateInterval.lower, 5)} to ${shown(r.rateInterval.upper, 5)} per unit.`,
+    ],
+    [
+      'Phase I false-alarm probability',
+      `${shownProbability(r.fap)}: the chance that at least one of the ${r.m} included periods signals when the process is in control at the center line.`,
+    ],
+  ]);
+  if (r.warnings.length > 0) {
+    w.paragraph('Warnings:');
+    for (const warning of r.warnings) w.paragraph(`• ${warning.message}`);
+  }
+}
+
+function signOffBlock(w: PageWriter, c: PacketContent): void {
+  w.heading('Sign-off');
+  w.paragraph(
+    'Each sign-off is an electronic signature over the study’s signed content (observations, decisions, method, limits and revision fields) and the sign-offs before it. It shows the printed name, the date and time with zone, and the meaning of the signature (21 CFR 11.50).',
+    8.5,
+  );
+  if (c.signOffs.length === 0) return w.paragraph('This revision has no sign-offs yet.');
+  w.table(
+    [
+      { header: 'Printed name', width: 2.2 },
+      { header: 'Role', width: 1.8 },
+      { header: 'Meaning', width: 1.3 },
+      { header: 'Date and time', width: 2.6 },
+      { header: 'Certificate', width: 2.2 },
+      { header: 'Signature', width: 2.4 },
+    ],
+    c.signOffs.map((s) => [
+      s.printedName,
+      s.role,
+      s.meaning,
+      s.time,
+      `${s.fingerprint.slice(0, 16)}…${s.selfIssued ? ' (self-issued)' : ''}`,
+      s.state === 'valid'
+        ? 'valid'
+        : s.state === 'void'
+          ? `VOID: ${s.note ?? 'the content changed after signing'}`
+          : `INVALID: ${s.note ?? ''}`,
+    ]),
+    8,
+  );
+  for (const s of c.signOffs) {
+    w.paragraph(
+      `${s.printedName}, certificate SHA-256 ${s.fingerprint}${s.selfIssued ? ' (self-issued: nobody but the holder vouches for the name)' : ''}`,
+      7.5,
+    );
+  }
+}
+
+function cautionPage(w: PageWriter): void {
+  w.heading('Cautions');
+  for (const caution of cautions) w.paragraph(`• ${caution}`);
+}
+
+/** The study identity at the top and "page i of n" at the bottom of every page. */
+function stampEveryPage(doc: PdfDoc, c: PacketContent): void {
+  const range = doc.bufferedPageRange();
+  for (let i = range.start; i < range.start + range.count; i++) {
+    doc.switchToPage(i);
+    const bottomMargin = doc.page.margins.bottom;
+    doc.page.margins.bottom = 0;
+    const left = doc.page.margins.left;
+    const width = doc.page.width - left - doc.page.margins.right;
+    doc.font(fonts.regular).fontSize(7.5).fillColor(palette.excluded);
+    doc.text(
+      `Limit Ledger · study ${c.studyId} · revision ${c.revision.number} · ${c.title}`,
+      left,
+      margin - 18,
+      { width, lineBreak: false, ellipsis: true },
+    );
+    doc.text(`Page ${i + 1} of ${range.count}`, left, doc.page.height - margin + 6, {
+      width,
+      align: 'right',
+      lineBreak: false,
+    });
+    doc.page.margins.bottom = bottomMargin;
+  }
+}
