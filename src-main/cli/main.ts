@@ -16,6 +16,7 @@ export const commands: Record<string, Command> = {
     summary: 'open the app in your browser, on 127.0.0.1 only',
     load: () => import('./commands/serve.js'),
   },
+  demo: { summary: 'write a demo study of an invented scenario', load: () => import('./commands/demo.js') },
 };
 
 export function helpText(): string {
