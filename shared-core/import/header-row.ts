@@ -5,19 +5,25 @@ import { columnIndex } from './column-mapping.js';
 /** How far down a sheet to look for the header (titles and notes often sit above it). */
 export const headerSearchRows = 50;
 
+/** The index of the first of the first rows that holds every named column, or null. */
+export function findHeader(rows: Cell[][], names: string[]): number | null {
+  const wanted = names.filter((name) => name !== '');
+  if (wanted.length === 0) return null;
+  const limit = Math.min(rows.length, headerSearchRows);
+  for (let i = 0; i < limit; i++) {
+    const header = rows[i].map((cell) => cellText(cell).trim());
+    if (wanted.every((name) => 'index' in columnIndex(header, name))) return i;
+  }
+  return null;
+}
+
 /**
  * The index of the header among the first rows of a table: the first row that holds every named
  * column, else the first row that is not blank. Titles above the header are skipped that way.
  */
 export function locateHeader(rows: Cell[][], names: string[]): number {
-  const limit = Math.min(rows.length, headerSearchRows);
-  const wanted = names.filter((name) => name !== '');
-  if (wanted.length > 0) {
-    for (let i = 0; i < limit; i++) {
-      const header = rows[i].map((cell) => cellText(cell));
-      if (wanted.every((name) => 'index' in columnIndex(header, name))) return i;
-    }
-  }
+  const found = findHeader(rows, names);
+  if (found !== null) return found;
   const first = rows.findIndex((row) => row.some((cell) => !isBlankCell(cell)));
   return first < 0 ? 0 : first;
 }

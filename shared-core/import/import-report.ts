@@ -57,6 +57,8 @@ export interface ImportSettingsUsed {
  */
 export interface ImportReport {
   file: string;
+  /** The file and, for a workbook, the sheet, as messages name them (`h.xlsx, sheet "Line 4"`). */
+  location: string;
   sha256: string | null;
   bytes: number | null;
   rowsRead: number;

@@ -65,16 +65,17 @@ export function readObservations(
   mapping: ColumnMapping,
   settings: ImportSettings = {},
 ): Result<ImportOutcome> {
-  const resolved = resolveColumns(table.file, table.headerRow, table.header, mapping);
+  const file = sourceLocation(table);
+  const resolved = resolveColumns(file, table.headerRow, table.header, mapping);
   if (!resolved.ok) return fail(...resolved.findings);
   const { columns } = resolved;
   const name = (index: number) => table.header[index];
 
   const decimal = chooseDecimalMark(numberCells(table, columns), settings.decimal, table.source?.delimiter);
   if (decimal.kind !== 'chosen') {
-    if (decimal.kind === 'mixed') return fail({ file: table.file, message: decimal.message });
+    if (decimal.kind === 'mixed') return fail({ file, message: decimal.message });
     const { row, column, text } = decimal.example;
-    return fail({ file: table.file, row, column, value: text, message: decimal.message });
+    return fail({ file, row, column, value: text, message: decimal.message });
   }
   const dateCells: DateCellText[] =
     columns.date === undefined
@@ -92,10 +93,9 @@ export function readObservations(
           });
   const order = chooseDateOrder(dateCells, settings.dateOrder);
   if (order.kind !== 'chosen') {
-    if (order.kind === 'mixed')
-      return fail({ file: table.file, column: order.dmy.column, message: order.message });
+    if (order.kind === 'mixed') return fail({ file, column: order.dmy.column, message: order.message });
     const { row, column, text } = order.example;
-    return fail({ file: table.file, row, column, value: text, message: order.message });
+    return fail({ file, row, column, value: text, message: order.message });
   }
 
   const observations: Observation[] = [];
@@ -201,6 +201,7 @@ export function readObservations(
   const source = table.source;
   const report: ImportReport = {
     file: table.file,
+    location: file,
     sha256: source?.sha256 ?? null,
     bytes: source?.bytes ?? null,
     rowsRead: table.rows.length,
@@ -234,6 +235,11 @@ export function readObservations(
     warnings,
   };
   return ok({ observations, rejected, noProduction, report });
+}
+
+/** The file, and the sheet of a workbook, as messages name them: `h.xlsx, sheet "Line 4"`. */
+export function sourceLocation(table: DecodedTable): string {
+  return table.sheet === undefined ? table.file : `${table.file}, sheet "${table.sheet}"`;
 }
 
 function byDateThenRow(a: Observation, b: Observation): number {

@@ -8,12 +8,21 @@ import type { Result } from '../../../shared-core/result.js';
 import { fail } from '../../../shared-core/result.js';
 import { decodeText } from './decode-text.js';
 import { delimitedTable } from './delimited-table.js';
+import { checkZipInflation } from './zip-inflation-guard.js';
+import { xlsxTable } from './xlsx-table.js';
 import { importLimits, megabytes, type ImportLimits } from './import-limits.js';
 import type { ImportRequest, ProgressListener } from './import-request.js';
 
 export interface ImportOptions {
   onProgress?: ProgressListener;
   limits?: Partial<ImportLimits>;
+}
+
+/** XLSX is a zip archive (PK\x03\x04); the old binary .xls is an OLE compound file. */
+function fileKind(bytes: Uint8Array): 'zip' | 'xls' | 'text' {
+  if (bytes[0] === 0x50 && bytes[1] === 0x4b && bytes[2] === 0x03 && bytes[3] === 0x04) return 'zip';
+  if (bytes[0] === 0xd0 && bytes[1] === 0xcf && bytes[2] === 0x11 && bytes[3] === 0xe0) return 'xls';
+  return 'text';
 }
 
 const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
@@ -52,21 +61,53 @@ export async function importBytes(
     });
   }
   if (signal?.aborted) return cancelled(file);
-  options.onProgress?.({ phase: 'decoding' });
   const source = { sha256: sha256(bytes), bytes: bytes.byteLength };
-  const decoded = decodeText(bytes, file, request.encoding);
-  if (!decoded.ok) return decoded;
-  const table = delimitedTable(
-    decoded.value.text,
-    file,
-    {
-      format: 'delimited',
-      ...source,
-      encoding: decoded.value.encoding,
-      encodingSource: decoded.value.source,
-    },
-    { delimiter: request.delimiter, headerNames: wantedColumns(request), limits },
-  );
+  const kind = fileKind(bytes);
+  if (kind === 'xls') {
+    return fail({
+      file,
+      message: 'is an old binary .xls workbook; save it as .xlsx or as CSV text and import that',
+    });
+  }
+  let table: Result<DecodedTable>;
+  if (kind === 'zip') {
+    options.onProgress?.({ phase: 'checking' });
+    const checked = await checkZipInflation(bytes, file, limits, signal);
+    if (!checked.ok) return checked;
+    if (signal?.aborted) return cancelled(file);
+    options.onProgress?.({ phase: 'decoding' });
+    table = await xlsxTable(
+      bytes,
+      file,
+      { format: 'xlsx', ...source },
+      {
+        sheet: request.sheet,
+        headerNames: wantedColumns(request),
+        limits,
+      },
+    );
+  } else {
+    options.onProgress?.({ phase: 'decoding' });
+    if (request.sheet !== undefined) {
+      return fail({
+        file,
+        message: `is a text file, not a workbook; --sheet ${request.sheet} does not apply`,
+      });
+    }
+    const decoded = decodeText(bytes, file, request.encoding);
+    if (!decoded.ok) return decoded;
+    table = delimitedTable(
+      decoded.value.text,
+      file,
+      {
+        format: 'delimited',
+        ...source,
+        encoding: decoded.value.encoding,
+        encodingSource: decoded.value.source,
+      },
+      { delimiter: request.delimiter, headerNames: wantedColumns(request), limits },
+    );
+  }
   if (!table.ok) return table;
   if (signal?.aborted) return cancelled(file);
   options.onProgress?.({ phase: 'validating' });
