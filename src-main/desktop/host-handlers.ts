@@ -29,8 +29,11 @@ export interface FilePicker {
   chooseSaveTarget(purpose: SavePurpose, suggestedName: string): Promise<string | null>;
   /** Studies the user can open without a dialog (the workspace; recent files on the desktop). */
   listStudies(): Promise<string[]>;
-  /** Where an export goes when no target was chosen (the web host: a download). */
-  exportDestination?(fileName: string): Promise<{ path: string; downloadUrl: string }>;
+  /**
+   * Where an export goes when no target was chosen: a save dialog on the desktop (null when the
+   * user cancels it), a download on the web host.
+   */
+  exportDestination?(fileName: string): Promise<{ path: string; downloadUrl?: string } | null>;
 }
 
 /** The services the channels call (plain Node; see src-main/services). */
@@ -238,8 +241,11 @@ export function createHandlers(context: HostContext): Handlers {
       let path: string;
       let downloadUrl: string | undefined;
       if (target !== undefined) path = files.writablePath(target);
-      else if (picker.exportDestination) ({ path, downloadUrl } = await picker.exportDestination(fileName));
-      else throw new HostError('no-target', 'choose where to save the packet first');
+      else {
+        const destination = (await picker.exportDestination?.(fileName)) ?? null;
+        if (destination === null) throw new HostError('no-target', 'choose where to save the packet first');
+        ({ path, downloadUrl } = destination);
+      }
       const jobId = jobs.start(
         'exportPacket',
         { document, format },
