@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import { copyFile, link, open, readFile, rename, unlink } from 'node:fs/promises';
+import { copyFile, link, open, readFile, readdir, rename, unlink } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { fail, ok, type Result } from '../../shared-core/result.js';
 import { formatStudy, parseStudy } from '../../shared-core/study/study-text.js';
@@ -104,6 +104,7 @@ async function writeStudy(path: string, text: string, options: SaveOptions): Pro
 
   const folder = dirname(path);
   const name = basename(path);
+  await sweepTemporaries(folder, name);
   const temporary = join(folder, `.${name}.${process.pid}.${++temporaryCounter}.tmp`);
   try {
     await writeDurably(temporary, text);
@@ -123,6 +124,32 @@ async function writeStudy(path: string, text: string, options: SaveOptions): Pro
       file: path,
       message: `could not be saved (${describeError(error)}); the file on disk is as it was`,
     });
+  }
+}
+
+/** Removes the temporary files that saves killed part-way left behind (their process is gone). */
+async function sweepTemporaries(folder: string, name: string): Promise<void> {
+  const prefix = `.${name}.`;
+  let names: string[];
+  try {
+    names = await readdir(folder);
+  } catch {
+    return;
+  }
+  for (const candidate of names) {
+    if (!candidate.startsWith(prefix) || !candidate.endsWith('.tmp')) continue;
+    const match = /^(?:bak\.)?(\d+)\.\d+\.tmp$/.exec(candidate.slice(prefix.length));
+    if (match && !isRunning(Number(match[1]))) await unlink(join(folder, candidate)).catch(() => undefined);
+  }
+}
+
+function isRunning(pid: number): boolean {
+  if (pid === process.pid) return true;
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (error) {
+    return (error as NodeJS.ErrnoException).code === 'EPERM';
   }
 }
 
