@@ -35,6 +35,8 @@ describe('binomial against @stdlib for n ≤ 1000', () => {
         if (pmf > 1e-300) expect(relativeError(binomialPmf(k, n, p), pmf)).toBeLessThan(5e-13);
         const cdf = binomialCdfReference(k, n, p);
         if (cdf > 1e-300) expect(relativeError(binomialCdf(k, n, p), cdf)).toBeLessThan(5e-13);
+        // Where 1 − cdf does not cancel, it checks the upper tail too.
+        if (cdf < 0.9) expect(relativeError(binomialUpperTail(k + 1, n, p), 1 - cdf)).toBeLessThan(5e-12);
       }
     }
   });
