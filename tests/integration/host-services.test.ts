@@ -1,4 +1,4 @@
-import { mkdtemp, mkdir, rm, writeFile } from 'node:fs/promises';
+import { mkdtemp, mkdir, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -96,5 +96,75 @@ describe('the browser host with its real services', () => {
     });
     expect(saved.ok).toBe(true);
     expect((await call('siteSettings', {})).value.causeCategories).toEqual(['Resin lot', 'Press']);
+  });
+
+  it('serves the invented demo study, labelled as invented, with the analysis input lifted out', async () => {
+    const demo = await call('demoStudy', {});
+    expect(demo.ok).toBe(true);
+    expect(demo.value.file).toBeNull();
+    expect(demo.value.document.identity.demo).toBe(true);
+    expect(demo.value.readOnly).toBe(false);
+    expect(demo.value.observations.length).toBeGreaterThan(10);
+    const analysis = await call('analyze', {
+      observations: demo.value.observations,
+      exclusions: demo.value.exclusions,
+      options: demo.value.options,
+    });
+    expect(analysis.value.ok).toBe(true);
+    expect(analysis.value.value.periods).toHaveLength(demo.value.observations.length);
+  });
+
+  it('saves a study into the workspace, reopens it, keeps a backup and notices a change made elsewhere', async () => {
+    const demo = (await call('demoStudy', {})).value;
+    const target = (await call('chooseSaveTarget', { purpose: 'study', suggestedName: 'door panels' })).value;
+    const first = await call('saveStudy', { target: target.handle, document: demo.document });
+    expect(first.value).toMatchObject({
+      saved: true,
+      file: { fileName: 'door panels.ledger' },
+      backupKept: false,
+    });
+    const listed = (await call('listWorkspace', {})).value.files;
+    const entry = listed.find((file: { fileName: string }) => file.fileName === 'door panels.ledger');
+    const reopened = await call('openStudy', { file: entry.handle });
+    expect(reopened.value.ok).toBe(true);
+    expect(reopened.value.value.document).toEqual(demo.document);
+    expect(reopened.value.value.file.fileName).toBe('door panels.ledger');
+    const second = await call('saveStudy', { target: entry.handle, document: demo.document });
+    expect(second.value).toMatchObject({ saved: true, backupKept: true });
+    // Someone else writes the file: the next save asks instead of overwriting.
+    const path = join(root, 'ws', 'door panels.ledger');
+    await writeFile(path, (await readFile(path, 'utf8')).replace('"schemaVersion"', ' "schemaVersion"'));
+    const third = await call('saveStudy', { target: entry.handle, document: demo.document });
+    expect(third.value).toMatchObject({ saved: false, reason: 'changed-on-disk' });
+    expect(third.value.message).not.toContain(root);
+    const forced = await call('saveStudy', {
+      target: entry.handle,
+      document: demo.document,
+      overwriteChanged: true,
+    });
+    expect(forced.value.saved).toBe(true);
+    expect((await readdir(join(root, 'ws'))).sort()).toEqual([
+      'door panels.ledger',
+      'door panels.ledger.bak',
+    ]);
+  });
+
+  it('refuses to save a document that is not a valid study, and opens a broken one with its problems', async () => {
+    const target = (await call('chooseSaveTarget', { purpose: 'study', suggestedName: 'broken' })).value;
+    const refused = await call('saveStudy', {
+      target: target.handle,
+      document: { schemaVersion: 1, id: 'x' },
+    });
+    expect(refused.value).toMatchObject({ saved: false, reason: 'refused' });
+    const demo = (await call('demoStudy', {})).value;
+    const tampered = structuredClone(demo.document);
+    tampered.observations[0].count += 1;
+    const bytes = Buffer.from(JSON.stringify(tampered)).toString('base64');
+    const uploaded = (await call('uploadFile', { purpose: 'study', fileName: 'tampered.ledger', bytes }))
+      .value;
+    const opened = await call('openStudy', { file: uploaded.handle });
+    expect(opened.value.ok).toBe(true);
+    expect(opened.value.value.readOnly).toBe(true);
+    expect(opened.value.value.findings.length).toBeGreaterThan(0);
   });
 });
