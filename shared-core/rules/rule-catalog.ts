@@ -10,7 +10,9 @@ import { zoneARule, zoneBRule } from './zone-rules.js';
 
 export interface RuleDefinition {
   id: RuleId;
-  /** What the rule means, in plain words, for a person reading why a period signals. */
+  /** A short name for lists and menus. */
+  name: string;
+  /** What the rule means, as a sentence in plain words, for a person reading why a period signals. */
   words: string;
   source: string;
   firesAt: (points: readonly RulePoint[], t: number) => boolean;
@@ -23,55 +25,66 @@ const NELSON = 'Nelson, Journal of Quality Technology 16(4), 1984';
 export const ruleCatalog: Record<RuleId, RuleDefinition> = {
   beyond: {
     id: 'beyond',
-    words: 'the count is beyond a control limit',
+    name: 'Beyond a limit',
+    words: 'The value is beyond its control limit.',
     source: `${WE}; ${NELSON}`,
     firesAt: beyondRule,
   },
   'zone-a': {
     id: 'zone-a',
-    words: '2 of the last 3 periods are more than 2 standard errors from the center on the same side',
+    name: '2 of 3 beyond 2σ',
+    words:
+      'Two of the last three periods are more than 2 standard deviations from the center line on the same side.',
     source: `${WE}; ${NELSON}`,
     firesAt: zoneARule,
   },
   'zone-b': {
     id: 'zone-b',
-    words: '4 of the last 5 periods are more than 1 standard error from the center on the same side',
+    name: '4 of 5 beyond 1σ',
+    words:
+      'Four of the last five periods are more than 1 standard deviation from the center line on the same side.',
     source: `${WE}; ${NELSON}`,
     firesAt: zoneBRule,
   },
   'run:8': {
     id: 'run:8',
-    words: 'the last 8 periods are all on the same side of the center',
+    name: 'Run of 8',
+    words: 'Eight periods in a row lie on the same side of the center line.',
     source: WE,
     firesAt: (points, t) => runRule(points, t, 8),
   },
   'run:9': {
     id: 'run:9',
-    words: 'the last 9 periods are all on the same side of the center',
+    name: 'Run of 9',
+    words: 'Nine periods in a row lie on the same side of the center line.',
     source: NELSON,
     firesAt: (points, t) => runRule(points, t, 9),
   },
   trend: {
     id: 'trend',
-    words: 'the last 6 periods rise steadily or fall steadily',
+    name: 'Trend of 6',
+    words: 'Six periods in a row rise steadily or fall steadily.',
     source: NELSON,
     firesAt: (points, t) => trendRule(points, t),
   },
   alternate: {
     id: 'alternate',
-    words: 'the last 14 periods alternate up and down',
+    name: '14 alternating',
+    words: 'Fourteen periods in a row alternate up and down.',
     source: NELSON,
     firesAt: (points, t) => alternateRule(points, t),
   },
   hug: {
     id: 'hug',
-    words: 'the last 15 periods all lie within 1 standard error of the center',
+    name: '15 within 1σ',
+    words: 'Fifteen periods in a row lie within 1 standard deviation of the center line.',
     source: NELSON,
     firesAt: (points, t) => hugRule(points, t),
   },
   avoid: {
     id: 'avoid',
-    words: 'the last 8 periods all lie more than 1 standard error from the center, on both sides',
+    name: '8 beyond 1σ, both sides',
+    words: 'Eight periods in a row lie more than 1 standard deviation from the center line, on both sides.',
     source: NELSON,
     firesAt: (points, t) => avoidRule(points, t),
   },
