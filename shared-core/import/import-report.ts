@@ -7,6 +7,8 @@ import type { DecimalMark } from './number-text.js';
 
 /** A cell that kept its row out of the analysis: the `rejected` shape of the analyze contract. */
 export interface Rejection {
+  /** Set only when the cell is in a second table (the units table of an event list). */
+  file?: string;
   row: number;
   column: string;
   /** The cell as written ('' for a blank cell). */
@@ -47,7 +49,14 @@ export interface ImportSettingsUsed {
   sheet?: string;
   headerRow: number;
   /** For event lists: how events were grouped into periods. */
-  events?: { period: string; time?: string; category?: string; unitsFrom?: string };
+  events?: {
+    period: string;
+    time?: string;
+    category?: string;
+    shiftStarts?: string;
+    unitsFrom?: string;
+    unitsKey?: string;
+  };
 }
 
 /**
@@ -71,6 +80,18 @@ export interface ImportReport {
   changedCells: ChangedCell[];
   settings: ImportSettingsUsed;
   warnings: ImportWarning[];
+  /** Event lists: how many periods the rows were grouped into. */
+  periods?: number;
+  /** Event lists: the rows of the units table, accounted for like the event rows. */
+  unitsTable?: {
+    file: string;
+    rowsRead: number;
+    accepted: number;
+    rejectedRows: number;
+    noProduction: number;
+  };
+  /** Event lists: nonconformities per category over the accepted periods, most frequent first. */
+  categories?: { category: string; count: number }[];
 }
 
 export interface ImportOutcome {
@@ -85,5 +106,6 @@ export interface ImportOutcome {
 /** A rejection as a finding, for messages: a blank cell shows no empty quotes. */
 export function rejectionFinding(file: string, rejection: Rejection): Finding {
   const { row, column, value, message } = rejection;
-  return value === '' ? { file, row, column, message } : { file, row, column, value, message };
+  const where = rejection.file ?? file;
+  return value === '' ? { file: where, row, column, message } : { file: where, row, column, value, message };
 }

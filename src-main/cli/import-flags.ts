@@ -23,6 +23,10 @@ export const importFlags = {
   period: { type: 'string' },
   time: { type: 'string' },
   category: { type: 'string' },
+  shifts: { type: 'string' },
+  'units-sheet': { type: 'string' },
+  'units-file': { type: 'string' },
+  'units-key': { type: 'string' },
 } as const;
 
 /** One line per flag, for a command's help text. */
@@ -41,6 +45,10 @@ export const importFlagHelp = [
   '--period day|week|shift|lot  the period events are grouped by (with --events)',
   '--time COL              the timestamp (or lot) column of an event list',
   '--category COL          the nonconformity category column of an event list',
+  '--shifts HH:MM,...      shift start times for --period shift (default 06:00,14:00,22:00)',
+  '--units-sheet NAME      a sheet listing each period with its units (the --units column)',
+  '--units-file FILE       a second file listing each period with its units (the --units column)',
+  '--units-key COL         the period column of the units sheet or file (default: the --time name)',
 ];
 
 type FlagValues = { [name in keyof typeof importFlags]?: string | boolean | (string | boolean)[] };
@@ -101,7 +109,20 @@ export function importRequestFromFlags(flags: Record<string, unknown>): Result<I
   const period = oneOf(values, 'period', ['day', 'week', 'shift', 'lot'] as const, findings);
   const time = text(values, 'time');
   const category = text(values, 'category');
+  const shifts = text(values, 'shifts');
+  const unitsSheet = text(values, 'units-sheet');
+  const unitsFile = text(values, 'units-file');
+  const unitsKey = text(values, 'units-key');
+  const eventsOnly = { shifts, 'units-sheet': unitsSheet, 'units-file': unitsFile, 'units-key': unitsKey };
   if (events) {
+    if (unitsSheet !== undefined && unitsFile !== undefined)
+      findings.push({ message: 'give --units-sheet or --units-file, not both' });
+    if ((unitsSheet !== undefined || unitsFile !== undefined) && request.units === undefined)
+      findings.push({
+        message: '--units-sheet and --units-file need --units COL, the units column of that table',
+      });
+    if (shifts !== undefined && period !== 'shift')
+      findings.push({ message: '--shifts applies to --period shift' });
     if (period === undefined && text(values, 'period') === undefined)
       findings.push({ message: '--events needs --period day, week, shift or lot' });
     if (time === undefined)
@@ -109,10 +130,18 @@ export function importRequestFromFlags(flags: Record<string, unknown>): Result<I
     if (period !== undefined && time !== undefined) {
       const grouping: EventsRequest = { period, time };
       if (category !== undefined) grouping.category = category;
+      if (shifts !== undefined) grouping.shiftStarts = shifts.split(',').map((start) => start.trim());
+      if (unitsSheet !== undefined) grouping.unitsSheet = unitsSheet;
+      if (unitsFile !== undefined) grouping.unitsFile = unitsFile;
+      if (unitsKey !== undefined) grouping.unitsKey = unitsKey;
       request.events = grouping;
     }
-  } else if (period !== undefined || time !== undefined || category !== undefined) {
-    findings.push({ message: '--period, --time and --category describe an event list: add --events' });
+  } else {
+    const stray = Object.entries({ period: text(values, 'period'), time, category, ...eventsOnly })
+      .filter(([, value]) => value !== undefined)
+      .map(([flag]) => `--${flag}`);
+    if (stray.length > 0)
+      findings.push({ message: `${stray.join(', ')} describe an event list: add --events` });
   }
   return findings.length > 0 ? fail(...findings) : ok(request);
 }

@@ -2,20 +2,29 @@ import { createHash } from 'node:crypto';
 import { open } from 'node:fs/promises';
 import { basename } from 'node:path';
 import type { DecodedTable } from '../../../shared-core/import/decoded-table.js';
+import { readEventPeriods, type UnitsTable } from '../../../shared-core/import/event-periods.js';
 import type { ImportOutcome } from '../../../shared-core/import/import-report.js';
 import { readObservations } from '../../../shared-core/import/read-observations.js';
 import type { Result } from '../../../shared-core/result.js';
-import { fail } from '../../../shared-core/result.js';
-import { decodeText } from './decode-text.js';
+import { fail, ok } from '../../../shared-core/result.js';
+import { decodeText, type TextEncoding } from './decode-text.js';
 import { delimitedTable } from './delimited-table.js';
-import { checkZipInflation } from './zip-inflation-guard.js';
-import { xlsxTable } from './xlsx-table.js';
 import { importLimits, megabytes, type ImportLimits } from './import-limits.js';
 import type { ImportRequest, ProgressListener } from './import-request.js';
+import { xlsxTable } from './xlsx-table.js';
+import { checkZipInflation } from './zip-inflation-guard.js';
 
 export interface ImportOptions {
   onProgress?: ProgressListener;
   limits?: Partial<ImportLimits>;
+}
+
+/** How to decode one table: what the user named, and the columns its header must hold. */
+interface TableRequest {
+  sheet?: string;
+  encoding?: TextEncoding;
+  delimiter?: string;
+  columns: string[];
 }
 
 /** XLSX is a zip archive (PK\x03\x04); the old binary .xls is an OLE compound file. */
@@ -27,33 +36,20 @@ function fileKind(bytes: Uint8Array): 'zip' | 'xls' | 'text' {
 
 const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
 
-const cancelled = (file: string) => fail<ImportOutcome>({ file, message: 'the import was cancelled' });
+const cancelled = <T>(file: string) => fail<T>({ file, message: 'the import was cancelled' });
 
-/** Column names the header must hold, used to find the header row below any title rows. */
-function wantedColumns(request: ImportRequest): string[] {
-  return [request.count, request.units, request.label, request.date].filter(
-    (name): name is string => typeof name === 'string' && name !== '',
-  );
-}
+const named = (names: (string | undefined)[]) =>
+  names.filter((name): name is string => typeof name === 'string' && name !== '');
 
-function outcomeFromTable(table: DecodedTable, request: ImportRequest): Result<ImportOutcome> {
-  const { count, units, label, date, decimal, dateOrder, inspectionUnit } = request;
-  return readObservations(table, { count, units, label, date }, { decimal, dateOrder, inspectionUnit });
-}
-
-/**
- * Periods from the bytes of a delimited text file or a workbook (files that arrive as uploads in
- * the browser host). `fileName` names the source in every message.
- */
-export async function importBytes(
-  fileName: string,
+/** The bytes of a delimited text file or a workbook as a table, within the limits. */
+async function decodeTable(
+  file: string,
   bytes: Uint8Array,
-  request: ImportRequest,
-  signal?: AbortSignal,
-  options: ImportOptions = {},
-): Promise<Result<ImportOutcome>> {
-  const limits = { ...importLimits, ...options.limits };
-  const file = fileName;
+  request: TableRequest,
+  limits: ImportLimits,
+  signal: AbortSignal | undefined,
+  options: ImportOptions,
+): Promise<Result<DecodedTable>> {
   if (bytes.byteLength > limits.maxFileBytes) {
     return fail({
       file,
@@ -69,59 +65,145 @@ export async function importBytes(
       message: 'is an old binary .xls workbook; save it as .xlsx or as CSV text and import that',
     });
   }
-  let table: Result<DecodedTable>;
   if (kind === 'zip') {
     options.onProgress?.({ phase: 'checking' });
     const checked = await checkZipInflation(bytes, file, limits, signal);
     if (!checked.ok) return checked;
     if (signal?.aborted) return cancelled(file);
     options.onProgress?.({ phase: 'decoding' });
-    table = await xlsxTable(
+    return xlsxTable(
       bytes,
       file,
       { format: 'xlsx', ...source },
-      {
-        sheet: request.sheet,
-        headerNames: wantedColumns(request),
-        limits,
-      },
-    );
-  } else {
-    options.onProgress?.({ phase: 'decoding' });
-    if (request.sheet !== undefined) {
-      return fail({
-        file,
-        message: `is a text file, not a workbook; --sheet ${request.sheet} does not apply`,
-      });
-    }
-    const decoded = decodeText(bytes, file, request.encoding);
-    if (!decoded.ok) return decoded;
-    table = delimitedTable(
-      decoded.value.text,
-      file,
-      {
-        format: 'delimited',
-        ...source,
-        encoding: decoded.value.encoding,
-        encodingSource: decoded.value.source,
-      },
-      { delimiter: request.delimiter, headerNames: wantedColumns(request), limits },
+      { sheet: request.sheet, headerNames: request.columns, limits },
     );
   }
-  if (!table.ok) return table;
-  if (signal?.aborted) return cancelled(file);
-  options.onProgress?.({ phase: 'validating' });
-  return outcomeFromTable(table.value, request);
+  options.onProgress?.({ phase: 'decoding' });
+  if (request.sheet !== undefined) {
+    return fail({ file, message: `is a text file, not a workbook; --sheet ${request.sheet} does not apply` });
+  }
+  const decoded = decodeText(bytes, file, request.encoding);
+  if (!decoded.ok) return decoded;
+  const { text, encoding, source: encodingSource } = decoded.value;
+  return delimitedTable(
+    text,
+    file,
+    { format: 'delimited', ...source, encoding, encodingSource },
+    { delimiter: request.delimiter, headerNames: request.columns, limits },
+  );
 }
 
-/** Periods from a file on disk; files over the size limit are refused before they are read. */
-export async function importFile(
-  path: string,
+/** The table's periods: rows as periods, or events grouped into periods. */
+function outcomeFromTable(
+  table: DecodedTable,
+  request: ImportRequest,
+  unitsTable: DecodedTable | undefined,
+): Result<ImportOutcome> {
+  const { count, units, label, date, decimal, dateOrder, inspectionUnit, events } = request;
+  const settings = { decimal, dateOrder, inspectionUnit };
+  if (!events) return readObservations(table, { count, units, label, date }, settings);
+  const unitsSource: UnitsTable | undefined =
+    unitsTable && units ? { table: unitsTable, key: events.unitsKey ?? events.time, units } : undefined;
+  return readEventPeriods(
+    table,
+    {
+      time: events.time,
+      ...(events.category ? { category: events.category } : {}),
+      ...(count ? { count } : {}),
+      ...(units && !unitsSource ? { units } : {}),
+    },
+    { ...settings, period: events.period, shiftStarts: events.shiftStarts, unitsTable: unitsSource },
+  );
+}
+
+function eventsColumns(request: ImportRequest): string[] {
+  const events = request.events!;
+  const unitsElsewhere = events.unitsSheet ?? events.unitsFile ?? events.unitsUpload;
+  return named([events.time, events.category, request.count, unitsElsewhere ? undefined : request.units]);
+}
+
+function mainColumns(request: ImportRequest): string[] {
+  if (request.events) return eventsColumns(request);
+  return named([request.count, request.units, request.label, request.date]);
+}
+
+async function importDecoded(
+  file: string,
+  bytes: Uint8Array,
+  request: ImportRequest,
+  readUnitsFile: (() => Promise<Result<{ file: string; bytes: Uint8Array }>>) | undefined,
+  signal: AbortSignal | undefined,
+  options: ImportOptions,
+): Promise<Result<ImportOutcome>> {
+  const limits = { ...importLimits, ...options.limits };
+  const { encoding, delimiter, sheet, events } = request;
+  const table = await decodeTable(
+    file,
+    bytes,
+    { sheet, encoding, delimiter, columns: mainColumns(request) },
+    limits,
+    signal,
+    options,
+  );
+  if (!table.ok) return table;
+  let unitsTable: DecodedTable | undefined;
+  if (events && (events.unitsSheet || readUnitsFile)) {
+    if (!request.units)
+      return fail({ file, message: 'a units table needs --units COL (its column of inspection units)' });
+    const unitsColumns = named([events.unitsKey ?? events.time, request.units]);
+    let decodedUnits: Result<DecodedTable>;
+    if (events.unitsSheet) {
+      decodedUnits = await decodeTable(
+        file,
+        bytes,
+        { sheet: events.unitsSheet, columns: unitsColumns },
+        limits,
+        signal,
+        options,
+      );
+    } else {
+      const unitsSource = await readUnitsFile!();
+      if (!unitsSource.ok) return unitsSource;
+      decodedUnits = await decodeTable(
+        unitsSource.value.file,
+        unitsSource.value.bytes,
+        { encoding, delimiter, columns: unitsColumns },
+        limits,
+        signal,
+        options,
+      );
+    }
+    if (!decodedUnits.ok) return decodedUnits;
+    unitsTable = decodedUnits.value;
+  }
+  if (signal?.aborted) return cancelled(file);
+  options.onProgress?.({ phase: 'validating' });
+  return outcomeFromTable(table.value, request, unitsTable);
+}
+
+/**
+ * Periods from the bytes of a delimited text file or a workbook (files that arrive as uploads in
+ * the browser host). `fileName` names the source in every message.
+ */
+export async function importBytes(
+  fileName: string,
+  bytes: Uint8Array,
   request: ImportRequest,
   signal?: AbortSignal,
   options: ImportOptions = {},
 ): Promise<Result<ImportOutcome>> {
-  const limits = { ...importLimits, ...options.limits };
+  const upload = request.events?.unitsUpload;
+  const readUnits = upload ? async () => ok({ file: upload.fileName, bytes: upload.bytes }) : undefined;
+  return importDecoded(fileName, bytes, request, readUnits, signal, options);
+}
+
+/** The bytes of a file, refused before reading when it is over the size limit. */
+async function readLimited(
+  path: string,
+  limits: ImportLimits,
+  signal: AbortSignal | undefined,
+  options: ImportOptions,
+): Promise<Result<{ file: string; bytes: Uint8Array }>> {
   const file = basename(path);
   let handle;
   try {
@@ -155,10 +237,25 @@ export async function importFile(
       offset += bytesRead;
       options.onProgress?.({ phase: 'reading', fraction: offset / size });
     }
-    return await importBytes(file, bytes.subarray(0, offset), request, signal, options);
+    return ok({ file, bytes: bytes.subarray(0, offset) });
   } finally {
     await handle.close();
   }
+}
+
+/** Periods from a file on disk; files over the size limit are refused before they are read. */
+export async function importFile(
+  path: string,
+  request: ImportRequest,
+  signal?: AbortSignal,
+  options: ImportOptions = {},
+): Promise<Result<ImportOutcome>> {
+  const limits = { ...importLimits, ...options.limits };
+  const read = await readLimited(path, limits, signal, options);
+  if (!read.ok) return read;
+  const unitsFile = request.events?.unitsFile;
+  const readUnits = unitsFile ? () => readLimited(unitsFile, limits, signal, options) : undefined;
+  return importDecoded(read.value.file, read.value.bytes, request, readUnits, signal, options);
 }
 
 /**
@@ -173,7 +270,14 @@ export async function importPastedText(
 ): Promise<Result<ImportOutcome>> {
   const file = 'pasted cells';
   if (signal?.aborted) return cancelled(file);
+  const limits = { ...importLimits, ...options.limits };
   const bytes = new TextEncoder().encode(text);
+  if (bytes.byteLength > limits.maxFileBytes) {
+    return fail({
+      file,
+      message: `are ${megabytes(bytes.byteLength)}; more than ${megabytes(limits.maxFileBytes)} is refused`,
+    });
+  }
   const table = delimitedTable(
     text,
     file,
@@ -184,12 +288,8 @@ export async function importPastedText(
       encoding: 'utf-8',
       encodingSource: 'given',
     },
-    {
-      delimiter: request.delimiter ?? '\t',
-      headerNames: wantedColumns(request),
-      limits: { ...importLimits, ...options.limits },
-    },
+    { delimiter: request.delimiter ?? '\t', headerNames: mainColumns(request), limits },
   );
   if (!table.ok) return table;
-  return outcomeFromTable(table.value, request);
+  return outcomeFromTable(table.value, request, undefined);
 }

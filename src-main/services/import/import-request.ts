@@ -8,6 +8,16 @@ export interface EventsRequest {
   /** The column with each event's timestamp (day, week, shift) or its period (lot). */
   time: string;
   category?: string;
+  /** Shift start times (HH:MM) for grouping by shift. */
+  shiftStarts?: string[];
+  /** A sheet of the same workbook that gives each period's units (in its `units` column). */
+  unitsSheet?: string;
+  /** A second file that gives each period's units (importFile only: a path). */
+  unitsFile?: string;
+  /** A second table's bytes that give each period's units (importBytes: an upload). */
+  unitsUpload?: { fileName: string; bytes: Uint8Array };
+  /** The column of the units table that names the period; the `time` column's name by default. */
+  unitsKey?: string;
 }
 
 /** Everything the user states about one import; what is left out is detected or asked. */
