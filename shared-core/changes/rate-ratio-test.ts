@@ -49,7 +49,8 @@ const RELATIVE_TOLERANCE = 1e-7;
  * tail, found by bisection on the monotone side of the mode (no sum over 0…N).
  * Sources: J. Przyborowski & H. Wilenski, "Homogeneity of results in testing samples from Poisson
  * series", Biometrika 31 (1940); C. J. Clopper & E. S. Pearson, Biometrika 26 (1934); the
- * "not larger than the observed" two-sided rule as in R's binom.test.
+ * the two-sided rule that sums every outcome no more probable than the observed one (common
+ * practice in exact tests).
  */
 export function rateRatioTest(
   base: RateSample,

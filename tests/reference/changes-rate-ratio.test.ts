@@ -25,9 +25,9 @@ function referenceInterval(xBase: number, tBase: number, xNew: number, tNew: num
 }
 
 describe('exact conditional rate-ratio test (Przyborowski & Wilenski 1940)', () => {
-  it('matches the comparison of two Poisson rates in R’s poisson.test help page (eba1977 lung cancer data, Fredericia 55–59 against the other three cities; printed values from memory)', () => {
-    // poisson.test(c(11, 6+8+7), c(800, 1083+1050+878)): rate ratio 1.971488,
-    // 95 % CI 0.8584264 4.2772659, p-value 0.07967.
+  it('matches the published comparison of lung cancer rates, Fredericia against three other Danish cities, ages 55–59 (E. B. Andersen 1977 data, Scandinavian Journal of Statistics 4; printed values from memory)', () => {
+    // 11 cases in 800 person-years against 6 + 8 + 7 = 21 in 1083 + 1050 + 878 = 3011: printed as
+    // rate ratio 1.971488, 95 % interval 0.8584264 to 4.2772659, exact conditional p = 0.07967.
     const result = rateRatioTest({ count: 21, units: 3011 }, { count: 11, units: 800 });
     if (!result.ok) throw new Error('no result');
     expect(result.value.ratio).toBeCloseTo(1.971488, 6);
