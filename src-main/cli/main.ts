@@ -17,6 +17,22 @@ export const commands: Record<string, Command> = {
     load: () => import('./commands/serve.js'),
   },
   demo: { summary: 'write a demo study of an invented scenario', load: () => import('./commands/demo.js') },
+  sign: {
+    summary: 'sign off a study revision (prepared, reviewed, approved) with your key',
+    load: () => import('./commands/sign.js'),
+  },
+  packet: {
+    summary: 'write the approval packet: signed PDF, workbook, limits CSV/JSON, chart SVG',
+    load: () => import('./commands/packet.js'),
+  },
+  countersign: {
+    summary: 'add a further signature to a signed packet PDF',
+    load: () => import('./commands/countersign.js'),
+  },
+  verify: {
+    summary: 'check a packet: signatures, embedded study, recomputed limits, workbook',
+    load: () => import('./commands/verify.js'),
+  },
 };
 
 export function helpText(): string {

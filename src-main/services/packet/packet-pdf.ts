@@ -270,8 +270,11 @@ function chartPage(w: PageWriter, c: PacketContent): void {
     w.width,
     height,
   );
-  drawChartOnPdf(w.doc, drawing, w.doc.page.margins.left, w.doc.y, fonts);
-  w.doc.y += height + 10;
+  const top = w.doc.y;
+  drawChartOnPdf(w.doc, drawing, w.doc.page.margins.left, top, fonts);
+  // Text drawn inside the chart moves pdfkit's cursor; the running text continues below the chart.
+  w.doc.x = w.doc.page.margins.left;
+  w.doc.y = top + height + 10;
   w.paragraph(
     'Center line solid; control limits dashed (stepped where the number of inspection units changes; no line where there is no lower limit). Dots: periods in control. Triangles: periods that signal. Crossed squares: periods excluded for an assignable cause; they stay on the chart but out of the estimate.',
     8.5,
@@ -409,19 +412,19 @@ function signOffBlock(w: PageWriter, c: PacketContent): void {
   if (c.signOffs.length === 0) return w.paragraph('This revision has no sign-offs yet.');
   w.table(
     [
-      { header: 'Printed name', width: 2.2 },
-      { header: 'Role', width: 1.8 },
-      { header: 'Meaning', width: 1.3 },
-      { header: 'Date and time', width: 2.6 },
-      { header: 'Certificate', width: 2.2 },
-      { header: 'Signature', width: 2.4 },
+      { header: 'Printed name', width: 2.1 },
+      { header: 'Role', width: 1.9 },
+      { header: 'Meaning', width: 1.2 },
+      { header: 'Date and time', width: 2.9 },
+      { header: 'Certificate', width: 1.9 },
+      { header: 'Signature', width: 2.2 },
     ],
     c.signOffs.map((s) => [
       s.printedName,
       s.role,
       s.meaning,
-      s.time,
-      `${s.fingerprint.slice(0, 16)}…${s.selfIssued ? ' (self-issued)' : ''}`,
+      readableTime(s.time),
+      `${s.fingerprint.slice(0, 8)}…${s.selfIssued ? ' self-issued' : ''}`,
       s.state === 'valid'
         ? 'valid'
         : s.state === 'void'
@@ -436,6 +439,13 @@ function signOffBlock(w: PageWriter, c: PacketContent): void {
       7.5,
     );
   }
+}
+
+/** 2026-12-01T19:31:43.080+01:00 → 2026-12-01 19:31:43 UTC+01:00 (date, time and zone, 21 CFR 11.50). */
+function readableTime(iso: string): string {
+  const match = /^(\d{4}-\d{2}-\d{2})T(\d{2}:\d{2}:\d{2})(?:\.\d+)?(Z|[+-]\d{2}:\d{2})$/.exec(iso);
+  if (!match) return iso;
+  return `${match[1]} ${match[2]} UTC${match[3] === 'Z' ? '' : match[3]}`;
 }
 
 function cautionPage(w: PageWriter): void {

@@ -1,0 +1,74 @@
+import { readFile } from 'node:fs/promises';
+import { parseArgs } from 'node:util';
+import { findSignatures, signPdf } from '../../services/packet/pdf-signature.js';
+import { writeAtomically } from '../../services/packet/make-packet.js';
+import {
+  keyOptions,
+  keyUsage,
+  passphraseFrom,
+  refuseCommandLinePassphrase,
+} from '../../services/signing/key-flags.js';
+import { openSigningIdentity } from '../../services/signing/key-source.js';
+import { KeyError } from '../../services/signing/signing-identity.js';
+
+export const usage = `Usage: limit-ledger countersign PACKET.pdf --p12 FILE [--passphrase-env VAR] [--reason TEXT] [--out FILE]
+
+  Adds a further signature to a signed packet as an incremental update: the bytes the earlier
+  signatures cover are left as they are, so they stay valid.
+
+${keyUsage}
+  --reason TEXT          what the signature means (default: "Countersignature")
+  --out FILE             write the countersigned packet here (default: replace PACKET.pdf)
+`;
+
+export async function run(argv: string[]): Promise<number> {
+  try {
+    return await countersign(argv);
+  } catch (error) {
+    if (error instanceof KeyError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS')) {
+      process.stderr.write(`limit-ledger countersign: ${(error as Error).message}\n`);
+      return 2;
+    }
+    throw error;
+  }
+}
+
+async function countersign(argv: string[]): Promise<number> {
+  refuseCommandLinePassphrase(argv);
+  const { values, positionals } = parseArgs({
+    args: argv,
+    strict: true,
+    allowPositionals: true,
+    options: {
+      ...keyOptions,
+      reason: { type: 'string' },
+      out: { type: 'string' },
+      help: { type: 'boolean', short: 'h' },
+    },
+  });
+  if (values.help) {
+    process.stdout.write(usage);
+    return 0;
+  }
+  const [pdfPath, ...extra] = positionals;
+  if (!pdfPath || extra.length > 0) throw new KeyError(`name one packet PDF\n\n${usage}`);
+  if (!values.p12) throw new KeyError('name the signing key with --p12 FILE');
+  const pdf = await readFile(pdfPath);
+  if (findSignatures(pdf).length === 0) {
+    process.stderr.write(
+      `limit-ledger countersign: ${pdfPath}: the PDF is not signed yet; sign it with limit-ledger packet --p12\n`,
+    );
+    return 2;
+  }
+  const identity = await openSigningIdentity(
+    values.p12,
+    await passphraseFrom(values, `Passphrase for ${values.p12}: `),
+  );
+  const signed = await signPdf(pdf, identity, { reason: values.reason ?? 'Countersignature' });
+  const out = values.out ?? pdfPath;
+  await writeAtomically(out, signed);
+  process.stdout.write(
+    `countersigned ${out} as ${identity.facts.commonName}${identity.facts.selfIssued ? ' (self-issued certificate)' : ''}; it now holds ${findSignatures(signed).length} signatures\n`,
+  );
+  return 0;
+}

@@ -1,0 +1,97 @@
+import { parseArgs } from 'node:util';
+import { describeFinding } from '../../../shared-core/result.js';
+import { localTime } from '../../../shared-core/study/local-time.js';
+import { makePacket } from '../../services/packet/make-packet.js';
+import {
+  keyOptions,
+  keyUsage,
+  passphraseFrom,
+  refuseCommandLinePassphrase,
+} from '../../services/signing/key-flags.js';
+import { openSigningIdentity } from '../../services/signing/key-source.js';
+import { KeyError } from '../../services/signing/signing-identity.js';
+
+export const usage = `Usage: limit-ledger packet STUDY --pdf OUT.pdf --xlsx OUT.xlsx [--p12 FILE --passphrase-env VAR]
+       [--paper a4|letter]
+
+  Writes the approval packet of the study's revision (the approved one, else the open draft): a
+  PDF with the chart, limits, data, exclusions, iterations, checks, sign-offs and cautions, the
+  study embedded, signed when a key is given; the workbook whose formulas recompute the limits;
+  and OUT.limits.csv, OUT.limits.json and OUT.chart.svg beside the PDF.
+
+  --pdf FILE         the PDF to write
+  --xlsx FILE        the workbook to write (the PDF states its SHA-256)
+  --paper SIZE       a4 (default) or letter
+${keyUsage}
+`;
+
+export async function run(argv: string[]): Promise<number> {
+  try {
+    return await packet(argv);
+  } catch (error) {
+    if (error instanceof KeyError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS')) {
+      process.stderr.write(`limit-ledger packet: ${(error as Error).message}\n`);
+      return 2;
+    }
+    throw error;
+  }
+}
+
+async function packet(argv: string[]): Promise<number> {
+  refuseCommandLinePassphrase(argv);
+  const { values, positionals } = parseArgs({
+    args: argv,
+    strict: true,
+    allowPositionals: true,
+    options: {
+      ...keyOptions,
+      pdf: { type: 'string' },
+      xlsx: { type: 'string' },
+      paper: { type: 'string', default: 'a4' },
+      help: { type: 'boolean', short: 'h' },
+    },
+  });
+  if (values.help) {
+    process.stdout.write(usage);
+    return 0;
+  }
+  const [studyPath, ...extra] = positionals;
+  if (!studyPath || extra.length > 0) throw new KeyError(`name one study file\n\n${usage}`);
+  if (!values.pdf || !values.xlsx) throw new KeyError('name both outputs: --pdf OUT.pdf --xlsx OUT.xlsx');
+  const paper = values.paper.toLowerCase();
+  if (paper !== 'a4' && paper !== 'letter')
+    throw new KeyError(`--paper must be a4 or letter, not "${values.paper}"`);
+  const identity = values.p12
+    ? await openSigningIdentity(values.p12, await passphraseFrom(values, `Passphrase for ${values.p12}: `))
+    : undefined;
+  const tty = process.stderr.isTTY;
+  const made = await makePacket({
+    studyPath,
+    pdfPath: values.pdf,
+    xlsxPath: values.xlsx,
+    paper,
+    now: localTime(Date.now(), -new Date().getTimezoneOffset()),
+    ...(identity ? { identity } : {}),
+    ...(tty
+      ? {
+          onProgress: (fraction: number, what: string) =>
+            process.stderr.write(`\r  making the packet: ${what.padEnd(10)} ${Math.round(fraction * 100)} %`),
+        }
+      : {}),
+  });
+  if (tty) process.stderr.write('\n');
+  if (!made.ok) {
+    process.stderr.write(made.findings.map((f) => `limit-ledger packet: ${describeFinding(f)}\n`).join(''));
+    return 2;
+  }
+  process.stdout.write(
+    [
+      `wrote ${made.value.join(', ')}`,
+      identity
+        ? `  the PDF is signed by ${identity.facts.commonName}${identity.facts.selfIssued ? ' (self-issued certificate)' : ''}`
+        : '  the PDF is not signed (give --p12 to sign it)',
+      '',
+    ].join('\n'),
+  );
+  return 0;
+}

@@ -1,0 +1,147 @@
+import { createHash, randomBytes } from 'node:crypto';
+import { readFile, rename, writeFile, unlink } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import { fail, ok, type Result } from '../../../shared-core/result.js';
+import { openStudyFile } from '../study-file.js';
+import type { SigningIdentity } from '../signing/signing-identity.js';
+import { layoutChart } from './chart-layout.js';
+import { chartSvg } from './chart-svg.js';
+import { limitsCsv, limitsJson, limitsTable } from './limits-table.js';
+import type { PacketContent } from './packet-content.js';
+import type { PacketFacts } from './packet-facts.js';
+import { packetContent, packetRevision } from './packet-from-study.js';
+import { buildPacketPdf, type Paper } from './packet-pdf.js';
+import { buildWorkbook } from './packet-workbook.js';
+import { signPdf } from './pdf-signature.js';
+
+export interface PacketFiles {
+  pdf: Buffer;
+  workbook: Buffer;
+  facts: PacketFacts;
+  csv: string;
+  json: string;
+  svg: string;
+}
+
+export interface PacketOptions {
+  paper: Paper;
+  identity?: SigningIdentity;
+  onProgress?: (fraction: number, what: string) => void;
+}
+
+const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
+
+/**
+ * The packet's files in memory: the workbook first (the PDF states its SHA-256), then the PDF
+ * with the study and the facts embedded, signed when a key is given; and the limits table as
+ * CSV and JSON and the chart as SVG from the same layout as the PDF's chart.
+ */
+export async function packetFiles(content: PacketContent, options: PacketOptions): Promise<PacketFiles> {
+  const progress = options.onProgress ?? (() => undefined);
+  progress(0.05, 'workbook');
+  const workbook = await buildWorkbook(content);
+  const result = content.result;
+  const facts: PacketFacts = {
+    format: 'limit-ledger-packet-facts',
+    version: 1,
+    studyId: content.studyId,
+    revision: content.revision.number,
+    chart: result.chart,
+    limits: result.limits,
+    center: result.center,
+    rate: result.rate,
+    table: limitsTable(result),
+    periods: result.periods.map((p) => ({ label: p.label, lcl: p.lcl, ucl: p.ucl, status: p.status })),
+    studySha256: content.studyDocument ? sha256(content.studyDocument.bytes) : null,
+    workbookSha256: sha256(workbook),
+    generatedAt: content.generatedAt,
+  };
+  progress(0.25, 'PDF');
+  let pdf = await buildPacketPdf(content, {
+    paper: options.paper,
+    facts,
+    onProgress: (f) => progress(0.25 + f * 0.6, 'PDF'),
+  });
+  if (options.identity) {
+    progress(0.88, 'signature');
+    pdf = await signPdf(pdf, options.identity, {
+      reason: `Approval packet, study ${content.studyId}, revision ${content.revision.number}`,
+    });
+  }
+  const unit = content.identity.inspectionUnit || 'inspection unit';
+  const drawing = layoutChart(
+    result,
+    { inspectionUnit: unit, title: `${result.chart} chart: ${content.title}` },
+    720,
+    400,
+  );
+  progress(1, 'done');
+  return {
+    pdf,
+    workbook,
+    facts,
+    csv: limitsCsv(result, unit),
+    json: limitsJson(result, unit, content.studyId),
+    svg: chartSvg(drawing, `${result.chart} chart: ${content.title}`),
+  };
+}
+
+export interface PacketRequest extends PacketOptions {
+  studyPath: string;
+  pdfPath: string;
+  xlsxPath: string;
+  /** The packet's time with its zone, as the cover prints it. */
+  now: string;
+}
+
+/** Reads the study, makes the packet and writes every file (each atomically); returns the paths. */
+export async function makePacket(request: PacketRequest): Promise<Result<string[]>> {
+  const opened = await openStudyFile(request.studyPath);
+  if (!opened.ok) return opened;
+  if (opened.value.readOnly) {
+    return fail({
+      file: request.studyPath,
+      message: `the study’s record does not verify (${opened.value.problems.map((p) => p.message).join('; ')}); no packet is made from it`,
+    });
+  }
+  const study = opened.value.study;
+  const revision = packetRevision(study);
+  if (!revision) {
+    return fail({
+      file: request.studyPath,
+      message:
+        'the study has no revision of its limits yet: sign it first (limit-ledger sign … --meaning prepared)',
+    });
+  }
+  const studyBytes = await readFile(request.studyPath);
+  const content = packetContent({
+    study,
+    revision,
+    studyBytes,
+    studyFileName: basename(request.studyPath),
+    generatedAt: request.now,
+  });
+  if (!content.ok) return content;
+  const files = await packetFiles(content.value, request);
+  const stem = request.pdfPath.replace(/\.pdf$/i, '');
+  const outputs: [string, Uint8Array | string][] = [
+    [request.xlsxPath, files.workbook],
+    [request.pdfPath, files.pdf],
+    [`${stem}.limits.csv`, files.csv],
+    [`${stem}.limits.json`, files.json],
+    [`${stem}.chart.svg`, files.svg],
+  ];
+  for (const [path, bytes] of outputs) await writeAtomically(path, bytes);
+  return ok(outputs.map(([path]) => path));
+}
+
+export async function writeAtomically(path: string, bytes: Uint8Array | string): Promise<void> {
+  const temporary = join(dirname(path), `.${basename(path)}.${randomBytes(6).toString('hex')}.tmp`);
+  try {
+    await writeFile(temporary, bytes, { flush: true });
+    await rename(temporary, path);
+  } catch (error) {
+    await unlink(temporary).catch(() => undefined);
+    throw error;
+  }
+}
