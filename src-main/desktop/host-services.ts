@@ -14,7 +14,7 @@ import { readSiteSettings, writeSiteSettings } from '../services/site-settings.j
 import { saveStudyFile } from '../services/study-file.js';
 import { hostClock, hostUser } from '../services/study-from-analysis.js';
 import type { HostServices } from './host-handlers.js';
-import { HostError } from './host-error.js';
+import { inspectData } from './inspect-data.js';
 
 /** The study as the screens see it, lifted out of the document by the core's fold of its chain. */
 export function studyView(
@@ -58,10 +58,6 @@ const withoutFolders = (findings: readonly Finding[]): Finding[] =>
 export function nodeHostServices(folders: { siteSettings: string }): HostServices {
   // What each study file held when it was opened or last saved, to notice a change made elsewhere.
   const diskHashes = new Map<string, string>();
-
-  const unavailable = (what: string): never => {
-    throw new HostError('unavailable', `${what} is not part of this build yet`);
-  };
 
   return {
     async demoStudy() {
@@ -116,8 +112,9 @@ export function nodeHostServices(folders: { siteSettings: string }): HostService
       return { saved: true, backupKept: saved.value.backup !== null };
     },
 
-    async inspectData() {
-      return unavailable('a preview of the data file before import');
+    async inspectData({ fileName, bytes }) {
+      const preview = await inspectData(fileName, bytes);
+      return preview.ok ? preview : fail(...withoutFolders(preview.findings));
     },
 
     analyze: (observations, exclusions, options) => analyzePhaseOne(observations, exclusions, options),

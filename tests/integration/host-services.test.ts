@@ -2,6 +2,7 @@ import { mkdtemp, mkdir, readdir, readFile, rm, writeFile } from 'node:fs/promis
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import ExcelJS from 'exceljs';
 import { analyzePhaseOne } from '../../shared-core/study/phase-one.js';
 import { startBrowserHost, type BrowserHost } from '../../src-main/web/browser-host.js';
 
@@ -166,5 +167,49 @@ describe('the browser host with its real services', () => {
     expect(opened.value.ok).toBe(true);
     expect(opened.value.value.readOnly).toBe(true);
     expect(opened.value.value.findings.length).toBeGreaterThan(0);
+  });
+
+  it('previews a CSV and a workbook for the column mapping, with the sheets of the workbook', async () => {
+    const csv = 'Lot;Blemishes;Panels\nA1;3;2\nA2;4;2\n';
+    const text = (
+      await call('uploadFile', {
+        purpose: 'data',
+        fileName: 'semi.csv',
+        bytes: Buffer.from(csv).toString('base64'),
+      })
+    ).value;
+    const previewed = await call('inspectData', { file: text.handle });
+    expect(previewed.value).toEqual({
+      ok: true,
+      value: {
+        file: { handle: text.handle, fileName: 'semi.csv' },
+        sheets: [],
+        columns: ['Lot', 'Blemishes', 'Panels'],
+        preview: [
+          ['A1', '3', '2'],
+          ['A2', '4', '2'],
+        ],
+      },
+    });
+    const workbook = new ExcelJS.Workbook();
+    workbook.addWorksheet('Notes').addRow(['invented data']);
+    const counts = workbook.addWorksheet('Counts');
+    counts.addRow(['shift', 'count']);
+    counts.addRow(['S1', 5]);
+    const bytes = Buffer.from(await workbook.xlsx.writeBuffer()).toString('base64');
+    const book = (await call('uploadFile', { purpose: 'data', fileName: 'book.xlsx', bytes })).value;
+    const sheets = await call('inspectData', { file: book.handle });
+    expect(sheets.value.ok).toBe(true);
+    expect(sheets.value.value.sheets).toEqual(['Notes', 'Counts']);
+    const broken = (
+      await call('uploadFile', {
+        purpose: 'data',
+        fileName: 'bad.xlsx',
+        bytes: Buffer.from('PK\u0003\u0004garbage').toString('base64'),
+      })
+    ).value;
+    const refused = await call('inspectData', { file: broken.handle });
+    expect(refused.value.ok).toBe(false);
+    expect(refused.value.findings[0].file).toBe('bad.xlsx');
   });
 });
