@@ -4,27 +4,18 @@ import {
   type AnalysisOptions,
   type AnalysisResult,
   type AssignableCause,
-  type Exclusion,
   type Iteration,
   type Observation,
 } from '../../shared-core/study/analysis-types.js';
-import type { Finding } from '../../shared-core/result.js';
+import type { Finding, Result } from '../../shared-core/result.js';
 import { iterationSnapshot } from '../../shared-core/study/iteration-history.js';
 import type { StudyView } from '../../shared-core/api.js';
-
-/** What one undoable step changes. */
-interface Snapshot {
-  exclusions: Exclusion[];
-  options: AnalysisOptions;
-  segmentStarts: number[];
-}
-
-export interface AuditEntry {
-  at: string;
-  who: string;
-  action: string;
-  detail: string;
-}
+import type { Study } from '../../shared-core/study/study-schema.js';
+import type { AuditEvent } from '../../shared-core/study/audit-event.js';
+import { studySchema } from '../../shared-core/study/study-schema.js';
+import { newStudy, observationsHash } from '../../shared-core/study/new-study.js';
+import { localTime } from '../../shared-core/study/local-time.js';
+import * as decisions from '../../shared-core/study/study-state.js';
 
 export interface StudyMeta {
   name: string;
@@ -32,7 +23,7 @@ export interface StudyMeta {
   unit: string;
   /** True for the invented demo scenario. */
   demo: boolean;
-  source?: { file: string; sha256?: string };
+  source?: { file: string };
 }
 
 export interface ViewSettings {
@@ -43,48 +34,49 @@ export interface ViewSettings {
 /** The values in first-seen order without repeats (plain data, not reactive state). */
 function distinct<T extends string | number>(values: T[]): T[] {
   const seen: Record<string, true> = {};
-  return values.filter((value) => (seen[value] ? false : (seen[value] = true)));
+  return values.filter((value) => (seen[String(value)] ? false : (seen[String(value)] = true)));
 }
 
-/** A timestamp for the audit entry; it is a value, not reactive state. */
-function nowIso(): string {
-  return new globalThis.Date(Date.now()).toISOString();
+/** The local clock's reading as audit events record it; a value, not reactive state. */
+function now(): string {
+  const offset = -new globalThis.Date(Date.now()).getTimezoneOffset();
+  return localTime(Date.now(), offset);
 }
 
-function sameCause(a: AssignableCause, b: AssignableCause): boolean {
-  return a.category === b.category && a.description === b.description && a.reference === b.reference;
+function withoutUndefined<T extends object>(value: T): T {
+  return Object.fromEntries(Object.entries(value).filter(([, v]) => v !== undefined)) as T;
 }
 
 /**
- * The open study as the screens see it: observations, decisions and the analysis they give. The
- * analysis is recomputed in the page from the pure core whenever a decision changes, so an exclusion
- * redraws without a round trip to the host.
+ * The open study as the screens see it. The record is the study document with its audit chain;
+ * every decision (exclusion, reinstatement, correction, method change, undo, redo) is appended to
+ * it through the core's study-state functions, and the analysis is recomputed in the page from the
+ * pure core, so an exclusion redraws without a round trip to the host.
  */
 export class StudyState {
   meta = $state<StudyMeta>({ name: '', unit: 'inspection unit', demo: false });
-  observations = $state.raw<Observation[]>([]);
-  exclusions = $state.raw<Exclusion[]>([]);
-  options = $state.raw<AnalysisOptions>({ ...defaultOptions });
-  /** Positions (in period order) where a known process change starts a new segment. */
-  segmentStarts = $state.raw<number[]>([]);
+  document = $state.raw<Study | null>(null);
   view = $state<ViewSettings>({ standardized: false, averageK: false });
   /** The selected period, as its position in period order. */
   selected = $state<number | null>(null);
-  audit = $state.raw<AuditEntry[]>([]);
   /** Every recompute of this session: the first is the study as opened. */
   iterations = $state.raw<Iteration[]>([]);
   user = $state('engineer');
-  /** The study document as the host gave it (signing and exports send it back). */
-  document = $state.raw<unknown>(null);
   readOnly = $state(false);
   openFindings = $state.raw<Finding[]>([]);
+  /** The last refusal of a decision, for the screens to show. */
+  lastProblem = $state('');
   /** When set, the chart shows only this category's nonconformities. */
   category = $state<string | null>(null);
 
-  #past: Snapshot[] = [];
-  #future: Snapshot[] = [];
-  canUndo = $state(false);
-  canRedo = $state(false);
+  /** The decisions folded: corrected observations, exclusions in force, method, undo and redo. */
+  readonly state = $derived(this.document ? decisions.deriveState(this.document) : null);
+  readonly observations: Observation[] = $derived(this.state?.observations ?? []);
+  readonly exclusions = $derived(this.state?.exclusions ?? []);
+  readonly options: AnalysisOptions = $derived(this.state?.method ?? defaultOptions);
+  readonly audit: AuditEvent[] = $derived(this.document?.events ?? []);
+  readonly canUndo = $derived(!this.readOnly && this.state?.undoable != null);
+  readonly canRedo = $derived(!this.readOnly && this.state?.redoable != null);
 
   /** The observations as charted: all nonconformities, or one category's. */
   readonly charted: Observation[] = $derived(
@@ -97,8 +89,8 @@ export class StudyState {
     distinct(this.observations.flatMap((o) => Object.keys(o.categories ?? {}))),
   );
 
-  readonly analysis: { ok: true; value: AnalysisResult } | { ok: false; findings: Finding[] } = $derived(
-    this.observations.length === 0
+  readonly analysis: Result<AnalysisResult> = $derived(
+    this.charted.length === 0
       ? {
           ok: false as const,
           findings: [{ message: 'The study has no periods yet: import a history on the Data screen.' }],
@@ -110,146 +102,162 @@ export class StudyState {
 
   /** Opens a study the host handed over (the demo, an opened file, an import). */
   loadView(view: StudyView, demo = false): void {
-    this.load(
+    const parsed = studySchema.safeParse(view.document);
+    const document = parsed.success
+      ? parsed.data
+      : this.#freshDocument(
+          view.title,
+          view.unitName,
+          view.observations,
+          { ...defaultOptions, ...view.options },
+          demo,
+        );
+    this.#open(
       {
         name: view.title,
         unit: view.unitName,
         demo,
         source: view.file ? { file: view.file.fileName } : undefined,
       },
-      view.observations,
-      view.options,
+      document,
     );
-    this.exclusions = view.exclusions;
-    this.document = view.document;
     this.readOnly = view.readOnly;
     this.openFindings = view.findings;
-    if (view.exclusions.length > 0)
-      this.iterations = [...this.iterations.slice(0, -1), ...this.#currentSnapshot()];
   }
 
-  #currentSnapshot(): Iteration[] {
-    const result = this.result;
-    return result ? [iterationSnapshot(result)] : [];
+  /** Starts a study from an import: the source file's hash, settings and report are bound by its first events. */
+  loadImport(input: {
+    title: string;
+    unit: string;
+    file: string;
+    sha256: string;
+    observations: Observation[];
+    importSettings: Record<string, unknown>;
+    importReport: Record<string, unknown>;
+  }): void {
+    const document = newStudy({
+      id: globalThis.crypto.randomUUID(),
+      identity: {
+        part: input.title,
+        processStep: '',
+        characteristic: '',
+        inspectionUnit: input.unit,
+        owner: this.user,
+      },
+      source: {
+        file: input.file,
+        sha256: /^[0-9a-f]{64}$/.test(input.sha256) ? input.sha256 : observationsHash(input.observations),
+        importSettings: JSON.parse(JSON.stringify(input.importSettings)),
+        importReport: JSON.parse(JSON.stringify(input.importReport)),
+      },
+      observations: input.observations,
+      method: withoutUndefined({ ...defaultOptions }),
+      who: this.user,
+      now: now(),
+    });
+    this.#open({ name: input.title, unit: input.unit, demo: false, source: { file: input.file } }, document);
   }
 
-  /** Opens a new study (nothing to undo before it). */
+  /** Opens observations that have no document yet (a new study made in the page). */
   load(meta: StudyMeta, observations: Observation[], options: Partial<AnalysisOptions> = {}): void {
-    this.meta = meta;
-    this.observations = observations;
-    this.exclusions = [];
-    this.options = { ...defaultOptions, ...options };
-    this.segmentStarts = [];
-    this.category = null;
-    this.document = null;
-    this.readOnly = false;
-    this.openFindings = [];
-    this.selected = null;
-    this.#past = [];
-    this.#future = [];
-    this.#syncHistoryFlags();
-    this.audit = [];
-    this.iterations = [];
-    this.#record('Open', meta.demo ? `${meta.name} (invented demo data)` : meta.name);
-  }
-
-  exclude(index: number, cause: AssignableCause): void {
-    const observation = this.observations[index];
-    if (!observation) return;
-    if (cause.category.trim() === '' || cause.description.trim() === '') {
-      throw new Error('An exclusion needs an assignable cause: a category and a description.');
-    }
-    const clean: AssignableCause = {
-      category: cause.category.trim(),
-      description: cause.description.trim(),
-      ...(cause.reference && cause.reference.trim() !== '' ? { reference: cause.reference.trim() } : {}),
-    };
-    const existing = this.exclusions.find((e) => e.index === index);
-    if (existing && sameCause(existing.cause, clean)) return;
-    this.#change(
-      { exclusions: [...this.exclusions.filter((e) => e.index !== index), { index, cause: clean }] },
-      'Exclude',
-      `${observation.label}: ${clean.category}: ${clean.description}${clean.reference ? ` (${clean.reference})` : ''}`,
+    this.#open(
+      meta,
+      this.#freshDocument(meta.name, meta.unit, observations, { ...defaultOptions, ...options }, meta.demo),
     );
   }
 
-  reinstate(index: number, reason = ''): void {
-    const observation = this.observations[index];
-    if (!observation || !this.exclusions.some((e) => e.index === index)) return;
-    this.#change(
-      { exclusions: this.exclusions.filter((e) => e.index !== index) },
-      'Reinstate',
-      `${observation.label}${reason ? `: ${reason}` : ''}`,
+  exclude(index: number, cause: AssignableCause): boolean {
+    return this.#apply((doc) => decisions.exclude(doc, { who: this.user, index, cause }, now()));
+  }
+
+  reinstate(index: number, reason?: string): boolean {
+    return this.#apply((doc) =>
+      decisions.reinstate(doc, { who: this.user, index, ...(reason ? { why: reason } : {}) }, now()),
     );
   }
 
-  setOptions(change: Partial<AnalysisOptions>): void {
-    const next = { ...this.options, ...change };
-    const described = Object.entries(change)
-      .map(([key, value]) => `${key} = ${Array.isArray(value) ? value.join(', ') : String(value)}`)
-      .join('; ');
-    this.#change({ options: next }, 'Change method', described);
-  }
-
-  setSegmentStarts(starts: number[]): void {
-    const sorted = distinct(starts)
-      .filter((s) => s > 0 && s < this.observations.length)
-      .sort((a, b) => a - b);
-    this.#change(
-      { segmentStarts: sorted },
-      'Split history',
-      sorted.length ? `segments start at ${sorted.map((s) => s + 1).join(', ')}` : 'one segment',
+  correct(index: number, field: 'count' | 'units' | 'date', value: number | string, reason: string): boolean {
+    return this.#apply((doc) =>
+      decisions.correct(doc, { who: this.user, index, field, value, reason }, now()),
     );
   }
 
-  undo(): void {
-    const previous = this.#past.pop();
-    if (!previous) return;
-    this.#future.push(this.#snapshot());
-    this.#restore(previous);
-    this.#record('Undo', 'the last decision is reversed by a compensating entry');
+  setOptions(change: Partial<AnalysisOptions>): boolean {
+    const method = withoutUndefined({ ...this.options, ...change });
+    return this.#apply((doc) => decisions.changeMethod(doc, { who: this.user, method }, now()));
   }
 
-  redo(): void {
-    const next = this.#future.pop();
-    if (!next) return;
-    this.#past.push(this.#snapshot());
-    this.#restore(next);
-    this.#record('Redo', 'the reversed decision is applied again');
+  undo(): boolean {
+    return this.#apply((doc) => decisions.undo(doc, this.user, now()));
+  }
+
+  redo(): boolean {
+    return this.#apply((doc) => decisions.redo(doc, this.user, now()));
   }
 
   /** The exclusion of an observation, if it has one. */
-  exclusionOf(index: number): Exclusion | undefined {
+  exclusionOf(index: number) {
     return this.exclusions.find((e) => e.index === index);
   }
 
-  #snapshot(): Snapshot {
-    return { exclusions: this.exclusions, options: this.options, segmentStarts: this.segmentStarts };
+  #apply(decide: (doc: Study) => Result<Study>): boolean {
+    const doc = this.document;
+    if (!doc) return false;
+    if (this.readOnly) {
+      this.lastProblem = 'This study is read-only: its audit chain is broken. Save a copy to keep working.';
+      return false;
+    }
+    const next = decide(doc);
+    if (!next.ok) {
+      this.lastProblem = next.findings.map((f) => f.message).join('; ');
+      return false;
+    }
+    this.lastProblem = '';
+    this.document = next.value;
+    this.#snapshot();
+    return true;
   }
 
-  #restore(snapshot: Snapshot): void {
-    this.exclusions = snapshot.exclusions;
-    this.options = snapshot.options;
-    this.segmentStarts = snapshot.segmentStarts;
-    this.#syncHistoryFlags();
+  #open(meta: StudyMeta, document: Study): void {
+    this.meta = meta;
+    this.document = document;
+    this.category = null;
+    this.readOnly = false;
+    this.openFindings = [];
+    this.lastProblem = '';
+    this.selected = null;
+    this.iterations = [];
+    this.#snapshot();
   }
 
-  #change(change: Partial<Snapshot>, action: string, detail: string): void {
-    this.#past.push(this.#snapshot());
-    this.#future = [];
-    this.#restore({ ...this.#snapshot(), ...change });
-    this.#record(action, detail);
-  }
-
-  #syncHistoryFlags(): void {
-    this.canUndo = this.#past.length > 0;
-    this.canRedo = this.#future.length > 0;
-  }
-
-  #record(action: string, detail: string): void {
-    this.audit = [...this.audit, { at: nowIso(), who: this.user, action, detail }];
+  #snapshot(): void {
     const result = this.result;
     if (result) this.iterations = [...this.iterations, iterationSnapshot(result)];
+  }
+
+  #freshDocument(
+    title: string,
+    unit: string,
+    observations: Observation[],
+    method: AnalysisOptions,
+    demo: boolean,
+  ): Study {
+    return newStudy({
+      id: globalThis.crypto.randomUUID(),
+      identity: {
+        part: title,
+        processStep: '',
+        characteristic: '',
+        inspectionUnit: unit,
+        owner: this.user,
+        ...(demo ? { demo } : {}),
+      },
+      source: { file: title, sha256: observationsHash(observations), importSettings: {}, importReport: {} },
+      observations,
+      method: withoutUndefined(method),
+      who: this.user,
+      now: now(),
+    });
   }
 }
 

@@ -3,6 +3,7 @@
  * served either by `limit-ledger serve`'s web host (when it is built) or, until then, by a tiny
  * static server that answers the two channels the first start needs from invented test data.
  */
+import { spawn } from 'node:child_process';
 import { createServer, type Server } from 'node:http';
 import { mkdtemp, readFile, rm, mkdir } from 'node:fs/promises';
 import { existsSync } from 'node:fs';
@@ -147,6 +148,8 @@ export async function newPage(
     locale: 'en-US',
   });
   const page = await context.newPage();
+  // Fail fast with the locator in the message, well inside the test's own timeout.
+  page.setDefaultTimeout(10_000);
   return { page, context };
 }
 
@@ -175,8 +178,59 @@ export async function seriousViolations(page: Page): Promise<AxeViolation[]> {
         axe: { run: (context: unknown, options: unknown) => Promise<{ violations: unknown[] }> };
       }
     ).axe;
-    const result = await axe.run(document, { resultTypes: ['violations'] });
+    const result = await axe.run('html', { resultTypes: ['violations'] });
     return result.violations;
   })) as AxeViolation[];
   return violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+}
+
+export const hasServe = existsSync(resolve('dist/src-main/cli/main.js'));
+
+/**
+ * Starts `limit-ledger serve` (the built web host) on a free port with a fresh workspace and data
+ * folder; resolves with the address it prints (carrying the run's token).
+ */
+export async function startServe(): Promise<{ url: string; workspace: string; close: () => Promise<void> }> {
+  const root = await mkdtemp(join(tmpdir(), 'll-screens-serve-'));
+  const workspace = join(root, 'workspace');
+  const child = spawn(
+    process.execPath,
+    [
+      resolve('bin/limit-ledger.js'),
+      'serve',
+      '--no-open',
+      '--workspace',
+      workspace,
+      '--data',
+      join(root, 'data'),
+    ],
+    { stdio: ['ignore', 'pipe', 'pipe'] },
+  );
+  let stderr = '';
+  child.stderr.on('data', (chunk) => (stderr += String(chunk)));
+  const url = await new Promise<string>((done, failed) => {
+    let stdout = '';
+    const timer = setTimeout(() => failed(new Error(`serve did not start: ${stderr}`)), 20_000);
+    child.stdout.on('data', (chunk) => {
+      stdout += String(chunk);
+      const line = stdout.split('\n')[0];
+      if (stdout.includes('\n') && line.startsWith('http')) {
+        clearTimeout(timer);
+        done(line.trim());
+      }
+    });
+    child.on('exit', (code) => failed(new Error(`serve exited with ${code}: ${stderr}`)));
+  });
+  return {
+    url,
+    workspace,
+    close: async () => {
+      if (child.exitCode === null) {
+        const exited = new Promise((done) => child.once('exit', done));
+        child.kill('SIGTERM');
+        await exited;
+      }
+      await rm(root, { recursive: true, force: true });
+    },
+  };
 }

@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { StudyState } from '../../src-renderer/state/study.svelte.js';
 import { analyzePhaseOne } from '../../shared-core/study/phase-one.js';
 import { defaultOptions, type Observation } from '../../shared-core/study/analysis-types.js';
+import { verifyChain } from '../../shared-core/study/audit-chain.js';
 
 // Invented periods (not a published example): period 4 is planted high.
 const observations: Observation[] = [10, 12, 9, 40, 11, 8, 10, 13, 9, 11].map((count, i) => ({
@@ -31,9 +32,10 @@ describe('StudyState', () => {
     expect(state.result?.periods[3].cause).toEqual(cause);
   });
 
-  it('refuses an exclusion without a category and description', () => {
+  it('refuses an exclusion without a category and description, and says why', () => {
     const state = opened();
-    expect(() => state.exclude(3, { category: 'Material', description: '  ' })).toThrow(/assignable cause/);
+    expect(state.exclude(3, { category: 'Material', description: '  ' })).toBe(false);
+    expect(state.lastProblem).toMatch(/description of its assignable cause/);
     expect(state.exclusions).toEqual([]);
   });
 
@@ -55,17 +57,28 @@ describe('StudyState', () => {
     expect(state.canRedo).toBe(true);
     state.reinstate(3);
     expect(state.canRedo).toBe(false);
-    expect(state.audit.map((e) => e.action)).toEqual([
-      'Open',
-      'Exclude',
-      'Change method',
-      'Undo',
-      'Undo',
-      'Redo',
-      'Reinstate',
+    // Undo never erases: the audit chain only grows, with compensating events.
+    expect(state.audit.map((e) => e.type)).toEqual([
+      'created',
+      'imported',
+      'excluded',
+      'method-changed',
+      'undo',
+      'undo',
+      'redo',
+      'reinstated',
     ]);
-    // Undo never erases: the trail only grows.
+    expect(verifyChain(state.document!)).toEqual([]);
     expect(state.iterations).toHaveLength(7);
+  });
+
+  it('keeps a corrected value beside the original and recomputes with it', () => {
+    const state = opened();
+    expect(state.correct(3, 'count', 14, 'typed 40 for 14 on the tally sheet')).toBe(true);
+    expect(state.observations[3].count).toBe(14);
+    expect(state.document!.observations[3].count).toBe(40);
+    expect(state.state?.corrections[0]).toMatchObject({ original: 40, value: 14 });
+    expect(state.result?.periods[3].status).toBe('in');
   });
 
   it('charts one category at a time when categories exist', () => {

@@ -1,0 +1,179 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, Page } from 'playwright-core';
+import {
+  hasChromium,
+  hasServe,
+  launchChromium,
+  newPage,
+  plantedCsv,
+  screenshot,
+  seriousViolations,
+  startServe,
+} from './screens-harness.js';
+
+const summary = (page: Page) => page.locator('[data-testid="review-summary"]').innerText();
+
+async function auditScreen(page: Page, name: string) {
+  for (const size of [
+    { width: 1280, height: 800 },
+    { width: 1920, height: 1080 },
+  ]) {
+    await page.setViewportSize(size);
+    await page.waitForTimeout(100);
+    await screenshot(page, name);
+  }
+  await page.setViewportSize({ width: 1280, height: 800 });
+  const violations = await seriousViolations(page);
+  expect(
+    violations.map((v) => `${name}: ${v.id} (${v.impact}) ${v.help} at ${v.nodes[0]?.target.join(' ')}`),
+  ).toEqual([]);
+}
+
+describe.skipIf(!hasChromium || !hasServe)('a baseline study by hand, against limit-ledger serve', () => {
+  let browser: Browser;
+  let closeBrowser: () => Promise<void>;
+  let served: Awaited<ReturnType<typeof startServe>>;
+
+  beforeAll(async () => {
+    served = await startServe();
+    ({ browser, close: closeBrowser } = await launchChromium());
+  });
+  afterAll(async () => {
+    await closeBrowser?.();
+    await served?.close();
+  });
+
+  it(
+    'imports a CSV with two planted signals, excludes one with a cause and sees the limits recompute',
+    { timeout: 120_000 },
+    async () => {
+      const { page, context } = await newPage(browser, { width: 1280, height: 800 });
+      await page.goto(served.url);
+      await page.locator('[data-testid="nav-data"]').click();
+      await auditScreen(page, 'data-choose');
+      await page.locator('[data-testid="data-file"]').setInputFiles({
+        name: 'panel-line.csv',
+        mimeType: 'text/csv',
+        buffer: Buffer.from(plantedCsv()),
+      });
+      await page.locator('[data-testid="map-count"], [data-testid="data-error"]').first().waitFor();
+      expect(await page.locator('[data-testid="data-error"]').allInnerTexts()).toEqual([]);
+      await page.locator('[data-testid="map-count"]').selectOption('defects');
+      await page.locator('[data-testid="map-units"]').selectOption('panels');
+      await page.locator('[data-testid="map-label"]').selectOption('shift');
+      await page.locator('[data-testid="map-unit-name"]').fill('panel');
+      await auditScreen(page, 'data-mapping');
+      await page.locator('[data-testid="run-import"]').click();
+      await page.locator('[data-testid="import-report"]').waitFor();
+      expect(await page.locator('[data-testid="import-report"]').innerText()).toContain(
+        '30 periods imported',
+      );
+      await auditScreen(page, 'data-report');
+      await page.locator('[data-testid="go-review"]').click();
+
+      await page.locator('[data-testid="control-chart"][data-ready="true"]').waitFor();
+      expect(await summary(page)).toContain('2 signals');
+      const before = await summary(page);
+      await auditScreen(page, 'review');
+
+      await page.locator('[data-testid="period-row"]', { hasText: 'S09' }).click();
+      expect(await page.locator('[data-testid="details-status"]').innerText()).toBe('Signal');
+      expect(await page.locator('[data-testid="details-rules"]').innerText()).toContain(
+        'beyond its control limit',
+      );
+      await page.locator('[data-testid="open-exclude"]').click();
+      await page.locator('[data-testid="cause-category"]').selectOption('Material');
+      await page
+        .locator('[data-testid="cause-description"]')
+        .fill('Panels from a resin lot later recalled by the supplier');
+      await page.locator('[data-testid="cause-reference"]').fill('CA-0042');
+      await auditScreen(page, 'review-exclude-form');
+      await page.locator('[data-testid="confirm-exclude"]').click();
+
+      await expect.poll(() => summary(page)).toContain('1 excluded');
+      const after = await summary(page);
+      expect(after).toContain('1 signal ');
+      // The center line moves down once the planted high shift leaves the estimate.
+      const center = (text: string) => Number(/center ([\d.]+)/.exec(text)?.[1]);
+      expect(center(after)).toBeLessThan(center(before));
+      await page.locator('[data-testid="iteration"]').first().click();
+      expect(await page.locator('[data-testid="iteration-compare"]').innerText()).toContain('S09, S21 → S21');
+      await auditScreen(page, 'review-after-exclusion');
+
+      await page.locator('[data-testid="undo"]').click();
+      await expect.poll(() => summary(page)).toContain('0 excluded');
+      await page.locator('[data-testid="redo"]').click();
+      await expect.poll(() => summary(page)).toContain('1 excluded');
+
+      await page.locator('[data-testid="nav-checks"]').click();
+      await page.locator('[data-testid="checks-dispersion"]').waitFor();
+      await auditScreen(page, 'checks');
+
+      await page.locator('[data-testid="nav-history"]').click();
+      const trail = await page.locator('[data-testid="audit-trail"]').innerText();
+      expect(trail).toContain('Excluded');
+      expect(trail).toContain('CA-0042');
+      expect(trail).toContain('Undo');
+      await page.locator('[data-testid="history-search"]').fill('resin');
+      await expect.poll(() => page.locator('[data-testid="audit-trail"] tbody tr').count()).toBe(1);
+      await auditScreen(page, 'history');
+
+      await page.locator('[data-testid="nav-signoff"]').click();
+      await auditScreen(page, 'signoff');
+      await context.close();
+    },
+  );
+
+  it('does the same with the keyboard only', { timeout: 120_000 }, async () => {
+    const { page, context } = await newPage(browser, { width: 1280, height: 800 });
+    await page.goto(served.url);
+    await page.keyboard.press('Alt+1');
+    const paste = page.locator('[data-testid="data-paste"]');
+    await paste.waitFor();
+    // Tab until the paste box has focus: every control on the way is reachable by keyboard.
+    for (let i = 0; i < 30 && !(await paste.evaluate((el) => el.matches(':focus'))); i++)
+      await page.keyboard.press('Tab');
+    expect(await paste.evaluate((el) => el.matches(':focus'))).toBe(true);
+    await page.keyboard.insertText(plantedCsv());
+    await page.keyboard.press('Tab');
+    await page.keyboard.press('Enter');
+    await page.locator('[data-testid="map-count"]').waitFor();
+    await page.locator('[data-testid="map-count"]').focus();
+    await page.keyboard.press('Tab');
+    await page.keyboard.press('Tab');
+    await page.keyboard.press('Tab');
+    await page.keyboard.press('Tab');
+    await page.keyboard.press('Control+A');
+    await page.keyboard.type('panel');
+    const run = page.locator('[data-testid="run-import"]');
+    for (let i = 0; i < 20 && !(await run.evaluate((el) => el.matches(':focus'))); i++)
+      await page.keyboard.press('Tab');
+    await page.keyboard.press('Enter');
+    await page.locator('[data-testid="go-review"]').waitFor();
+    await page.keyboard.press('Alt+2');
+    await page.locator('[data-testid="control-chart"][data-ready="true"]').waitFor();
+
+    // Walk the chart with the arrow keys to the first signal, then exclude it with X.
+    await page.locator('[data-testid="chart-focus"]').focus();
+    for (let i = 0; i < 9; i++) await page.keyboard.press('ArrowRight');
+    expect(await page.locator('[data-testid="details-label"]').innerText()).toContain('S09');
+    await page.keyboard.press('x');
+    await expect.poll(() => page.locator(':focus').getAttribute('data-testid')).toBe('cause-description');
+    await page.keyboard.type('Panels from a resin lot later recalled by the supplier');
+    await page.keyboard.press('Tab');
+    await page.keyboard.type('CA-0042');
+    await page.keyboard.press('Enter');
+    await expect.poll(() => summary(page)).toContain('1 excluded');
+    await page.keyboard.press('Control+z');
+    await expect.poll(() => summary(page)).toContain('0 excluded');
+    await page.keyboard.press('Control+y');
+    await expect.poll(() => summary(page)).toContain('1 excluded');
+    await page.keyboard.press('?');
+    await page.locator('[data-testid="shortcuts"]').waitFor();
+    await screenshot(page, 'shortcuts');
+    await page.keyboard.press('Escape');
+    await page.keyboard.press('Alt+3');
+    await page.locator('[data-testid="checks-dispersion"]').waitFor();
+    await context.close();
+  });
+});
