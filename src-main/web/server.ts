@@ -189,6 +189,12 @@ export async function startWebHost(options: WebHostOptions): Promise<WebHost> {
     const path = normalize(join(root, relative));
     if (!path.startsWith(root + sep) || relative.includes('\0')) return refuse(response, 404, 'not-found');
     const info = await stat(path).catch(() => null);
+    if ((info === null || !info.isFile()) && relative === '/favicon.ico') {
+      // Browsers ask for this on their own; the renderer names its icon in index.html where it has one.
+      response.writeHead(204, { 'cache-control': 'private, max-age=86400' });
+      response.end();
+      return;
+    }
     if (info === null || !info.isFile()) {
       response.writeHead(404, { 'content-type': 'text/plain; charset=utf-8' });
       response.end(
