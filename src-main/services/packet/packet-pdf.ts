@@ -148,7 +148,7 @@ class PageWriter {
   }
 
   table(
-    columns: { header: string; width: number; align?: 'left' | 'right' }[],
+    columns: { header: string; width: number; align?: 'left' | 'right'; wrap?: boolean }[],
     rows: string[][],
     size = 7.5,
   ): void {
@@ -183,21 +183,33 @@ class PageWriter {
         header();
         this.doc.font(fonts.regular).fontSize(size);
       }
+      // Only the columns that may wrap are measured: measuring every cell would slow long tables.
+      let height = rowHeight;
+      columns.forEach((c, i) => {
+        if (c.wrap && row[i])
+          height = Math.max(height, this.doc.heightOfString(row[i]!, { width: widths[i]! - 4 }) + 4.5);
+      });
+      if (height > rowHeight && this.doc.y + height > this.bottom) {
+        this.doc.addPage();
+        header();
+        this.doc.font(fonts.regular).fontSize(size);
+      }
       const y = this.doc.y;
-      if (r % 2 === 1) this.doc.rect(left, y - 1.5, this.width, rowHeight).fill('#F2F2EC');
+      if (r % 2 === 1) this.doc.rect(left, y - 1.5, this.width, height).fill('#F2F2EC');
       this.doc.fillColor(palette.ink);
       let x = left;
       row.forEach((cell, i) => {
+        const wrap = columns[i]!.wrap === true;
         this.doc.text(cell, x + 2, y + 1, {
           width: widths[i]! - 4,
           align: columns[i]!.align ?? 'left',
-          lineBreak: false,
-          ellipsis: true,
-          height: rowHeight,
+          lineBreak: wrap,
+          ellipsis: !wrap,
+          height: wrap ? height : rowHeight,
         });
         x += widths[i]!;
       });
-      this.doc.y = y + rowHeight;
+      this.doc.y = y + height;
     });
     this.doc.x = left;
     this.doc.moveDown(0.5);
@@ -339,11 +351,11 @@ function exclusionLog(w: PageWriter, c: PacketContent): void {
   w.table(
     [
       { header: 'Period', width: 1.6 },
-      { header: 'Cause', width: 1.6 },
-      { header: 'Description', width: 3.6 },
-      { header: 'Reference', width: 1.4 },
+      { header: 'Cause', width: 1.6, wrap: true },
+      { header: 'Description', width: 3.4, wrap: true },
+      { header: 'Reference', width: 1.4, wrap: true },
       { header: 'Who', width: 1.4 },
-      { header: 'When', width: 2 },
+      { header: 'When', width: 2.2, wrap: true },
     ],
     c.exclusions.map((e) => [
       e.label,
@@ -351,7 +363,7 @@ function exclusionLog(w: PageWriter, c: PacketContent): void {
       e.cause.description,
       e.cause.reference ?? '',
       e.who,
-      e.when,
+      readableTime(e.when),
     ]),
   );
 }
@@ -362,11 +374,11 @@ function iterationHistory(w: PageWriter, c: PacketContent): void {
   w.table(
     [
       { header: 'Step', width: 0.8, align: 'right' },
-      { header: 'Excluded', width: 3 },
+      { header: 'Excluded', width: 3, wrap: true },
       { header: 'Center', width: 1.4, align: 'right' },
       { header: 'LCL at k̄', width: 1.4, align: 'right' },
       { header: 'UCL at k̄', width: 1.4, align: 'right' },
-      { header: 'Signals', width: 3 },
+      { header: 'Signals', width: 3, wrap: true },
     ],
     c.iterations.map((it, i) => [
       String(i + 1),
@@ -412,12 +424,12 @@ function signOffBlock(w: PageWriter, c: PacketContent): void {
   if (c.signOffs.length === 0) return w.paragraph('This revision has no sign-offs yet.');
   w.table(
     [
-      { header: 'Printed name', width: 2.1 },
-      { header: 'Role', width: 1.9 },
+      { header: 'Printed name', width: 2.1, wrap: true },
+      { header: 'Role', width: 1.9, wrap: true },
       { header: 'Meaning', width: 1.2 },
-      { header: 'Date and time', width: 2.9 },
-      { header: 'Certificate', width: 1.9 },
-      { header: 'Signature', width: 2.2 },
+      { header: 'Date and time', width: 2.9, wrap: true },
+      { header: 'Certificate', width: 1.9, wrap: true },
+      { header: 'Signature', width: 2.2, wrap: true },
     ],
     c.signOffs.map((s) => [
       s.printedName,

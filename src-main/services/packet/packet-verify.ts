@@ -93,11 +93,13 @@ export async function verifyPacket(request: VerifyRequest): Promise<Verdict> {
   }
 
   const files = embeddedFiles(pdf);
+  for (const file of files)
+    if (!file.bytes) say(false, `the embedded file ${file.name} is damaged and cannot be read`);
   const factsFile = files.find((f) => f.name === factsFileName);
   const studyFile = files.find((f) => f.name !== factsFileName);
   let facts: PacketFacts | null;
   try {
-    facts = factsFile ? (JSON.parse(factsFile.bytes.toString('utf8')) as PacketFacts) : null;
+    facts = factsFile?.bytes ? (JSON.parse(factsFile.bytes.toString('utf8')) as PacketFacts) : null;
   } catch {
     facts = null;
   }
@@ -107,7 +109,7 @@ export async function verifyPacket(request: VerifyRequest): Promise<Verdict> {
   }
   if (!studyFile) {
     say(false, 'the PDF carries no embedded study');
-  } else {
+  } else if (studyFile.bytes) {
     checkStudy(studyFile.bytes, studyFile.name, facts, say);
   }
 

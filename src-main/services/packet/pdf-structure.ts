@@ -94,7 +94,8 @@ export function streamBytes(pdf: Buffer, object: PdfObject): Buffer {
 
 export interface EmbeddedFile {
   name: string;
-  bytes: Buffer;
+  /** null when the stream cannot be decoded (damaged). */
+  bytes: Buffer | null;
 }
 
 /** The files attached to the PDF (Filespec objects with an /EF entry), latest definitions winning. */
@@ -110,8 +111,14 @@ export function embeddedFiles(pdf: Buffer): EmbeddedFile[] {
       /\/F\s*\(((?:\\.|[^\\)])*)\)/.exec(object.head)?.[1];
     const reference = /\/EF\s*<<\s*\/F\s+(\d+)\s+\d+\s+R/.exec(object.head);
     const target = reference ? latest.get(Number(reference[1])) : undefined;
-    if (name !== undefined && target)
-      files.push({ name: name.replace(/\\([()\\])/g, '$1'), bytes: streamBytes(pdf, target) });
+    if (name === undefined || !target) continue;
+    let bytes: Buffer | null;
+    try {
+      bytes = streamBytes(pdf, target);
+    } catch {
+      bytes = null; // a damaged stream: the caller reports it
+    }
+    files.push({ name: name.replace(/\\([()\\])/g, '$1'), bytes });
   }
   return files;
 }
