@@ -1,5 +1,5 @@
 import { spawn } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -15,7 +15,10 @@ import { sampleStudy } from './fixtures/study-sample.js';
  */
 const here = dirname(fileURLToPath(import.meta.url));
 const root = resolve(here, '..', '..');
-const dist = join(root, 'dist');
+const built = join(root, 'dist');
+// The children run a private copy of the build, so that a rebuild meanwhile cannot change it under
+// them; it stays inside the repository so that node_modules still resolves.
+const dist = join(root, 'test-output', `kill-during-save-dist-${process.pid}`);
 const child = join(here, 'fixtures', 'study-save-loop.mjs');
 const kills = process.env.LL_STRESS === '1' ? 1000 : 50;
 
@@ -69,9 +72,11 @@ describe(`a save killed at a random moment (${kills} times)`, () => {
     'leaves the old or the new version, and a whole backup',
     async () => {
       expect(
-        existsSync(join(dist, 'src-main', 'services', 'study-file.js')),
+        existsSync(join(built, 'src-main', 'services', 'study-file.js')),
         'run `npm run build` first',
       ).toBe(true);
+      for (const part of ['shared-core', 'src-main'])
+        cpSync(join(built, part), join(dist, part), { recursive: true });
       const tally = { kills: 0, old: 0, new: 0, backupOneOlder: 0, backupSame: 0, leftoverTemporaries: 0 };
       // Four lanes in parallel, each its own folder and study, to keep `npm test` short.
       const lanes = 4;
@@ -82,6 +87,7 @@ describe(`a save killed at a random moment (${kills} times)`, () => {
       mkdirSync(output, { recursive: true });
       writeFileSync(join(output, `kill-during-save-${kills}.json`), `${JSON.stringify(tally, null, 2)}\n`);
       console.log(`kill during save: ${JSON.stringify(tally)}`);
+      rmSync(dist, { recursive: true, force: true });
       expect(tally.kills).toBe(kills);
     },
     kills * 3_000,

@@ -16,13 +16,14 @@ import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
 import { normalQuantile } from '../../../shared-core/stats/normal.js';
 import type { ImportOutcome } from '../../../shared-core/import/import-report.js';
 import { importFile } from '../../services/import/import-file.js';
+import { saveAnalysisStudy } from '../../services/study-from-analysis.js';
 import { importFlags, importRequestFromFlags } from '../import-flags.js';
 import { analysisJson } from '../analysis-json.js';
 import { analysisTable } from '../analysis-table.js';
 
 export const usage = `Usage: limit-ledger analyze FILE --count COL [--units COL] [--label COL] [--chart c|u]
   [--limits sigma|probability|laney] [--sigma L] [--alpha A | --fap F] [--rate R]
-  [--exclude LABEL=REASON]... [--exclusions FILE] [--rules LIST] [--skip-invalid] [--json]
+  [--exclude LABEL=REASON]... [--exclusions FILE] [--rules LIST] [--skip-invalid] [--json] [--save STUDY]
 
   --count COL         the column of nonconformity counts
   --units COL         the column of inspection units per period (none: 1 unit per period)
@@ -40,6 +41,7 @@ export const usage = `Usage: limit-ledger analyze FILE --count COL [--units COL]
                       alternate, hug, avoid, or all
   --skip-invalid      analyze the valid rows and list each left-out row under "rejected"
   --json              print one JSON object (the contract in DESIGN.md)
+  --save STUDY        also write the study (.ledger): the import, each exclusion and the iterations
 `;
 
 /** A usage or input problem: exit status 2 with a message that names file, row and column. */
@@ -77,6 +79,7 @@ async function analyze(argv: string[]): Promise<number> {
         rules: { type: 'string' },
         'skip-invalid': { type: 'boolean' },
         json: { type: 'boolean' },
+        save: { type: 'string' },
         help: { type: 'boolean', short: 'h' },
       },
     });
@@ -126,6 +129,16 @@ async function analyze(argv: string[]): Promise<number> {
   const trial = exclusions.length > 0 ? iterationHistory(observations, [[]], options) : undefined;
   const iterations = [...(trial?.ok ? trial.value : []), iterationSnapshot(result.value)];
 
+  if (values.save) {
+    const saved = await saveAnalysisStudy(values.save, {
+      file,
+      outcome,
+      method: options,
+      exclusions,
+      iterations,
+    });
+    if (!saved.ok) throw new InputError(saved.findings.map(describeFinding).join('\n'));
+  }
   if (values.json) {
     process.stdout.write(`${JSON.stringify(analysisJson(result.value, outcome, iterations))}\n`);
   } else {
