@@ -1,5 +1,8 @@
 import { deviance } from './deviance.js';
+import { logGamma } from './log-gamma.js';
 import { stirlingError } from './stirling-error.js';
+
+const MIN_NORMAL = 2.2250738585072014e-308;
 
 /**
  * The binomial term C(n, k)·p^k·q^{n−k} for real 0 ≤ k ≤ n and p + q = 1, given both p and q so
@@ -24,6 +27,12 @@ export function binomialTerm(k: number, n: number, p: number, q: number): number
     return Math.exp(p < 0.1 ? -deviance(n, n * q) - n * p : n * Math.log(q));
   }
   if (k === n) return Math.exp(q < 0.1 ? -deviance(n, n * p) - n * q : n * Math.log(p));
+  // When np or nq is subnormal, k/(np) in bd0 would overflow; the plain form has nothing to cancel.
+  if (n * p < k * MIN_NORMAL || n * q < (n - k) * MIN_NORMAL) {
+    return Math.exp(
+      logGamma(n + 1) - logGamma(k + 1) - logGamma(n - k + 1) + k * Math.log(p) + (n - k) * Math.log(q),
+    );
+  }
   const exponent =
     stirlingError(n) - stirlingError(k) - stirlingError(n - k) - deviance(k, n * p) - deviance(n - k, n * q);
   return Math.exp(exponent) * Math.sqrt(n / (2 * Math.PI * k * (n - k)));

@@ -121,6 +121,8 @@ function solveBelowHalf(t: number, alpha: number, beta: number, tail: 'lower' | 
     const value = tail === 'lower' ? tails.lower : tails.upper;
     const h = sign * (Math.log(value) - logTarget);
     if (h === 0 || Number.isNaN(h)) return v;
+    // The root lies below the smallest positive double: it underflows to 0.
+    if (v === 0) return 0;
     if (h < 0) low = v;
     else high = v;
     // v^α·(1 − v)^{β−1}/B(α, β) = (α·β/(α + β))·C(α + β, α)·v^α·(1 − v)^β / (1 − v)
@@ -132,7 +134,7 @@ function solveBelowHalf(t: number, alpha: number, beta: number, tail: 'lower' | 
       if (low > 0) next = Math.sqrt(low) * Math.sqrt(high);
       else {
         next = v * Math.exp(-expansion);
-        expansion *= 2;
+        expansion = Math.min(2 * expansion, 512);
       }
     }
     if (next === v || Math.abs(next - v) <= 2 * EPSILON * v) return next;

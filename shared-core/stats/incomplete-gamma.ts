@@ -159,6 +159,8 @@ function invertTail(a: number, t: number, tail: 'lower' | 'upper'): number {
     const value = tailAt(a, x);
     const h = sign * (Math.log(value) - logTarget);
     if (h === 0 || Number.isNaN(h)) return x;
+    // The root lies below the smallest positive double: it underflows to 0.
+    if (x === 0) return 0;
     if (h < 0) low = x;
     else high = x;
     // |h| = ∞ when the tail underflowed: no slope to use, move by bracket or by expanding steps.
@@ -168,7 +170,7 @@ function invertTail(a: number, t: number, tail: 'lower' | 'upper'): number {
       if (low > 0 && high < Number.POSITIVE_INFINITY) next = Math.sqrt(low) * Math.sqrt(high);
       else {
         next = h < 0 ? x * Math.exp(expansion) : x * Math.exp(-expansion);
-        expansion *= 2;
+        expansion = Math.min(2 * expansion, 512);
       }
     }
     if (next === x || Math.abs(next - x) <= 2 * EPSILON * x) return next;

@@ -55,6 +55,21 @@ describe('incomplete beta: closed forms and identities', () => {
       runs,
     );
   });
+  it('the quantile is always in [0, 1] for valid arguments, including tiny shapes and tails', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: -3, max: 6, noNaN: true }).map((exponent) => 10 ** exponent),
+        fc.double({ min: -3, max: 6, noNaN: true }).map((exponent) => 10 ** exponent),
+        fc.double({ min: -300, max: 0, noNaN: true }).map((exponent) => 10 ** exponent),
+        (a, b, p) => {
+          const x = inverseRegularizedBeta(p, a, b);
+          expect(x).toBeGreaterThanOrEqual(0);
+          expect(x).toBeLessThanOrEqual(1);
+        },
+      ),
+      { numRuns: 200, seed: 20261201 },
+    );
+  });
   it('edge cases', () => {
     expect(regularizedBeta(0, 2, 3)).toBe(0);
     expect(regularizedBeta(1, 2, 3)).toBe(1);

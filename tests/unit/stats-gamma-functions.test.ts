@@ -162,6 +162,24 @@ describe('incomplete gamma: identities and inverses', () => {
       { numRuns: 150, seed: 20261201 },
     );
   });
+  it('never gives NaN for valid arguments, even where the root underflows (tiny a, tiny p)', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: -6, max: 9, noNaN: true }).map((exponent) => 10 ** exponent),
+        fc.double({ min: -300, max: 0, noNaN: true }).map((exponent) => 10 ** exponent),
+        (a, t) => {
+          const lower = inverseRegularizedGammaP(a, t);
+          const upper = inverseRegularizedGammaQ(a, t);
+          expect(lower).toBeGreaterThanOrEqual(0);
+          expect(upper).toBeGreaterThanOrEqual(0);
+          expect(chiSquareQuantile(t, 2 * a)).toBeGreaterThanOrEqual(0);
+        },
+      ),
+      { numRuns: 200, seed: 20261201 },
+    );
+    // P(0.01, x) = 1e-17 needs x ≈ (1e-17·Γ(1.01))^{100} ≈ e^{−3900}: below the smallest double, so 0.
+    expect(inverseRegularizedGammaP(0.01, 1e-17)).toBe(0);
+  });
   it('edge cases', () => {
     expect(regularizedGammaP(2, 0)).toBe(0);
     expect(regularizedGammaQ(2, 0)).toBe(1);
