@@ -21,12 +21,13 @@ const blankMessage = 'the cell is blank; a blank is never read as 0';
 
 /** A number cell as written: a workbook number as is, text under the decimal mark. */
 function readNumber(cell: Cell, decimal: DecimalMark): CellReading {
-  if (typeof cell === 'number') return { value: cell };
+  if (typeof cell === 'number') return { value: cell === 0 ? 0 : cell };
   if (typeof cell === 'boolean') return { rejection: 'is a true/false value, not a number' };
   if (cell instanceof Date) return { rejection: 'is a date, not a number' };
   const text = (cell ?? '').trim();
   const value = parseNumberText(text, decimal);
   if (value === null) return { rejection: 'is not a number' };
+  if (value === 0) return text === '0' ? { value: 0 } : { value: 0, changed: '0' }; // "-0" and "0.0" are 0
   return String(value) === text ? { value } : { value, changed: String(value) };
 }
 
