@@ -33,6 +33,14 @@ export const commands: Record<string, Command> = {
     summary: 'check a packet: signatures, embedded study, recomputed limits, workbook',
     load: () => import('./commands/verify.js'),
   },
+  compare: {
+    summary: 'compare the rate in new data with a base: exact ratio, interval and test',
+    load: () => import('./commands/compare.js'),
+  },
+  arl: {
+    summary: 'average run lengths of the limits: in control and after rises in the rate',
+    load: () => import('./commands/arl.js'),
+  },
 };
 
 export function helpText(): string {

@@ -1,0 +1,180 @@
+import { parseArgs } from 'node:util';
+import { describeFinding } from '../../../shared-core/result.js';
+import type { ImportOutcome } from '../../../shared-core/import/import-report.js';
+import type { Observation, Warning } from '../../../shared-core/study/analysis-types.js';
+import { dispersionCheck } from '../../../shared-core/study/dispersion-check.js';
+import { rateRatioTest } from '../../../shared-core/changes/rate-ratio-test.js';
+import { importFile } from '../../services/import/import-file.js';
+import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-flags.js';
+
+export const usage = `Usage: limit-ledger compare BASE NEW --count COL [--units COL] [--label COL]
+  [--confidence C] [--skip-invalid] [--json]
+
+Compares the rate of nonconformities per inspection unit in NEW with the rate in BASE (two data
+files with the same columns): the ratio new/base, its exact interval and the exact conditional
+test of "no change" (Przyborowski & Wilenski 1940).
+
+  ${importFlagHelp.join('\n  ')}
+  --confidence C          confidence of the interval (default 0.95)
+  --skip-invalid          leave out invalid rows, each listed under "rejected"
+  --json                  print one JSON object
+`;
+
+/** A usage or input problem: exit status 2 with a message that names file, row and column. */
+export class InputError extends Error {}
+
+/** Over-dispersion at this level in either sample makes the exact test optimistic. */
+const DISPERSION_LEVEL = 0.01;
+
+export async function run(argv: string[]): Promise<number> {
+  try {
+    return await compare(argv);
+  } catch (error) {
+    if (error instanceof InputError) {
+      process.stderr.write(`limit-ledger compare: ${error.message}\n`);
+      return 2;
+    }
+    throw error;
+  }
+}
+
+/**
+ * The periods of a data file through the import module; invalid cells stop the command with every
+ * one listed (file, row, column), unless `skipInvalid`, when they are returned under `rejected`.
+ */
+export async function importPeriods(
+  file: string,
+  values: Record<string, unknown>,
+  skipInvalid: boolean,
+): Promise<ImportOutcome> {
+  const request = importRequestFromFlags(values);
+  if (!request.ok) throw new InputError(request.findings.map(describeFinding).join('\n'));
+  const imported = await importFile(file, request.value);
+  if (!imported.ok) throw new InputError(imported.findings.map(describeFinding).join('\n'));
+  const outcome = imported.value;
+  if (outcome.rejected.length > 0 && !skipInvalid) {
+    const lines = outcome.rejected.map((r) =>
+      describeFinding({
+        file: r.file ?? outcome.report.file ?? file,
+        row: r.row,
+        column: r.column,
+        value: r.value,
+        message: r.message,
+      }),
+    );
+    throw new InputError(
+      `${lines.join('\n')}\n${outcome.rejected.length} invalid cell(s); fix them, or use --skip-invalid to leave those rows out`,
+    );
+  }
+  if (outcome.observations.length === 0)
+    throw new InputError(`${outcome.report.file ?? file}: no periods to compare`);
+  return outcome;
+}
+
+function sampleOf(file: string, observations: readonly Observation[]) {
+  const count = observations.reduce((sum, o) => sum + o.count, 0);
+  const units = observations.reduce((sum, o) => sum + o.units, 0);
+  const dispersion =
+    count > 0 && observations.length > 1
+      ? dispersionCheck(
+          observations.map((o) => o.count),
+          observations.map((o) => o.units),
+          count / units,
+          false,
+        )
+      : null;
+  return { file, periods: observations.length, count, units, rate: count / units, dispersion };
+}
+
+async function compare(argv: string[]): Promise<number> {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      strict: true,
+      options: {
+        ...importFlags,
+        confidence: { type: 'string' },
+        'skip-invalid': { type: 'boolean' },
+        json: { type: 'boolean' },
+        help: { type: 'boolean', short: 'h' },
+      },
+    });
+  } catch (error) {
+    throw new InputError(`${(error as Error).message}\n\n${usage}`);
+  }
+  const { values, positionals } = parsed;
+  if (values.help) {
+    process.stdout.write(usage);
+    return 0;
+  }
+  if (positionals.length !== 2) throw new InputError(`name two data files, BASE and NEW\n\n${usage}`);
+  const [baseFile, newFile] = positionals;
+  let confidence = 0.95;
+  if (values.confidence !== undefined) {
+    confidence = Number(values.confidence);
+    if (values.confidence.trim() === '' || !(confidence > 0 && confidence < 1))
+      throw new InputError(`--confidence "${values.confidence}" must be a probability between 0 and 1`);
+  }
+  const skip = values['skip-invalid'] === true;
+  const baseOutcome = await importPeriods(baseFile, values, skip);
+  const newOutcome = await importPeriods(newFile, values, skip);
+  const base = sampleOf(baseOutcome.report.file ?? baseFile, baseOutcome.observations);
+  const changed = sampleOf(newOutcome.report.file ?? newFile, newOutcome.observations);
+  const overdispersed = [base, changed].some(
+    (s) => s.dispersion !== null && s.dispersion.pOver < DISPERSION_LEVEL,
+  );
+
+  const test = rateRatioTest(base, changed, { confidence, overdispersed });
+  if (!test.ok) throw new InputError(test.findings.map(describeFinding).join('\n'));
+  const result = test.value;
+  const warnings: Warning[] = [
+    ...baseOutcome.report.warnings.map((w) => ({ code: w.code, message: `${base.file}: ${w.message}` })),
+    ...newOutcome.report.warnings.map((w) => ({ code: w.code, message: `${changed.file}: ${w.message}` })),
+    ...result.cautions,
+  ];
+  const sampleJson = (s: typeof base) => ({
+    file: s.file,
+    periods: s.periods,
+    count: s.count,
+    units: s.units,
+    rate: s.rate,
+    dispersion: s.dispersion && {
+      statistic: s.dispersion.statistic,
+      df: s.dispersion.df,
+      pOver: s.dispersion.pOver,
+    },
+  });
+
+  if (values.json) {
+    const json = {
+      ratio: result.ratio,
+      ciLow: result.ciLow,
+      ciHigh: result.ciHigh,
+      pValue: result.pValue,
+      confidence: result.confidence,
+      base: sampleJson(base),
+      new: sampleJson(changed),
+      test: 'exact conditional test of equal rates (Przyborowski & Wilenski 1940), Clopper–Pearson interval',
+      warnings,
+      rejected: [
+        ...baseOutcome.rejected.map((r) => ({ file: base.file, ...r })),
+        ...newOutcome.rejected.map((r) => ({ file: changed.file, ...r })),
+      ],
+    };
+    process.stdout.write(`${JSON.stringify(json)}\n`);
+    return 0;
+  }
+  const number = (x: number | null, digits = 4) => (x === null ? 'unbounded' : x.toPrecision(digits));
+  const lines = [
+    `Base: ${base.file}: ${base.count} nonconformities in ${base.units} units over ${base.periods} periods (rate ${number(base.rate)})`,
+    `New:  ${changed.file}: ${changed.count} nonconformities in ${changed.units} units over ${changed.periods} periods (rate ${number(changed.rate)})`,
+    `Rate ratio new/base: ${number(result.ratio)}, ${Math.round(confidence * 100)} % interval ${number(result.ciLow)} to ${number(result.ciHigh)}`,
+    `Exact test of no change: p = ${number(result.pValue, 3)}`,
+    ...warnings.map((w) => `Note: ${w.message}`),
+    '',
+  ];
+  process.stdout.write(lines.join('\n'));
+  return 0;
+}
