@@ -271,7 +271,12 @@ export const SignStudyRequest = z.object({
   passphrase: z.string().min(1).max(1024),
 });
 
-export const SignStudyResult = z.object({ document: z.unknown(), fingerprint: z.string() });
+export const SignStudyResult = z.object({
+  document: z.unknown(),
+  fingerprint: z.string(),
+  /** What happened, in words (a new draft revision, a sign-off that voided others). */
+  notes: z.array(z.string()).optional(),
+});
 
 // ---- Jobs and host events --------------------------------------------------------------------
 

@@ -246,9 +246,11 @@ export function createHandlers(context: HostContext): Handlers {
         if (destination === null) throw new HostError('no-target', 'choose where to save the packet first');
         ({ path, downloadUrl } = destination);
       }
+      const settings = await services.readSettings();
+      const paper = settings.ok && settings.value.paperSize === 'Letter' ? 'letter' : 'a4';
       const jobId = jobs.start(
         'exportPacket',
-        { document, format },
+        { document, format, paper },
         {
           outputTarget: path,
           finish: async () => ({

@@ -1,0 +1,126 @@
+import { mkdir, mkdtemp, readdir, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import {
+  createPersonalIdentity,
+  exportPkcs12,
+} from '../../src-main/services/signing/personal-certificate.js';
+import { startBrowserHost, type BrowserHost } from '../../src-main/web/browser-host.js';
+
+type Reply = {
+  ok: boolean;
+  value?: Record<string, unknown> & { [key: string]: unknown };
+  error?: { code: string; message: string };
+};
+
+/** Signing and the packet through the browser host, as the Sign-off screen uses them. */
+describe('signing and export as host jobs', () => {
+  let host: BrowserHost;
+  let root: string;
+  const headers = (): Record<string, string> => ({
+    'content-type': 'application/json',
+    authorization: `Bearer ${host.session.token}`,
+  });
+  const call = async (channel: string, payload: unknown): Promise<Reply> =>
+    (await (
+      await fetch(`${host.origin}/api/${channel}`, {
+        method: 'POST',
+        headers: headers(),
+        body: JSON.stringify(payload),
+      })
+    ).json()) as Reply;
+  const finish = async (jobId: string) => host.parts.jobs.settled(jobId);
+
+  beforeAll(async () => {
+    root = await mkdtemp(join(tmpdir(), 'll-host-packet-'));
+    await mkdir(join(root, 'renderer'));
+    await writeFile(join(root, 'renderer', 'index.html'), '<!doctype html>');
+    host = await startBrowserHost({
+      workspace: join(root, 'ws'),
+      dataFolder: join(root, 'data'),
+      rendererDir: join(root, 'renderer'),
+    });
+  });
+  afterAll(async () => {
+    await host.close();
+    await rm(root, { recursive: true, force: true });
+  });
+
+  it('signs the demo with an uploaded key in a worker, then exports the PDF as a one-time download', async () => {
+    const identity = await createPersonalIdentity({ name: 'Invented Preparer' });
+    const p12 = await exportPkcs12(identity, 'invented passphrase');
+    const key = (
+      await call('uploadFile', { purpose: 'key', fileName: 'preparer.p12', bytes: p12.toString('base64') })
+    ).value!;
+    const demo = (await call('demoStudy', {})).value!;
+
+    const wrong = await call('signStudy', {
+      document: demo.document,
+      meaning: 'prepared',
+      printedName: 'Invented Preparer',
+      role: 'Quality engineer',
+      key: key.handle,
+      passphrase: 'not it',
+    });
+    const refused = await finish(wrong.value!.jobId as string);
+    expect(refused?.state).toBe('failed');
+    expect(JSON.stringify(refused)).not.toContain('not it');
+
+    // The first attempt released the key's bytes; upload again, as the screen does after a wrong passphrase.
+    const again = (
+      await call('uploadFile', { purpose: 'key', fileName: 'preparer.p12', bytes: p12.toString('base64') })
+    ).value!;
+    const started = await call('signStudy', {
+      document: demo.document,
+      meaning: 'prepared',
+      printedName: 'Invented Preparer',
+      role: 'Quality engineer',
+      key: again.handle,
+      passphrase: 'invented passphrase',
+    });
+    const signed = await finish(started.value!.jobId as string);
+    expect(signed?.state).toBe('done');
+    const result = (
+      signed as { result: { document: { revisions: { signOffs: unknown[] }[] }; fingerprint: string } }
+    ).result;
+    expect(result.fingerprint).toBe(identity.facts.fingerprint);
+    expect(result.document.revisions.at(-1)!.signOffs).toHaveLength(1);
+    expect((await call('jobStatus', { jobId: started.value!.jobId })).ok).toBe(true);
+    // The key's bytes are gone from the host once the job ended.
+    expect((await call('inspectData', { file: again.handle })).error?.code).toBe('unknown-file');
+
+    const exported = await call('exportPacket', { document: result.document, format: 'pdf' });
+    const packet = await finish(exported.value!.jobId as string);
+    expect(packet?.state).toBe('done');
+    const { downloadUrl, file } = (packet as { result: { downloadUrl: string; file: { fileName: string } } })
+      .result;
+    expect(file.fileName).toMatch(/\.pdf$/);
+    const download = await fetch(`${host.origin}${downloadUrl}`, { headers: headers() });
+    expect(download.status).toBe(200);
+    expect(download.headers.get('content-disposition')).toMatch(/^attachment;/);
+    expect(
+      Buffer.from(await download.arrayBuffer())
+        .subarray(0, 5)
+        .toString('latin1'),
+    ).toBe('%PDF-');
+    expect((await fetch(`${host.origin}${downloadUrl}`, { headers: headers() })).status).toBe(404);
+  }, 120_000);
+
+  it('refuses to export a study with no revision, and leaves no file behind', async () => {
+    const demo = (await call('demoStudy', {})).value!;
+    const exported = await call('exportPacket', { document: demo.document, format: 'workbook' });
+    const outcome = await finish(exported.value!.jobId as string);
+    expect(outcome).toMatchObject({
+      state: 'failed',
+      findings: [{ message: expect.stringContaining('no revision') }],
+    });
+    const leftovers = await readdir(tmpdir()).then((names) =>
+      names.filter((name) => name.startsWith('limit-ledger-downloads-')),
+    );
+    for (const folder of leftovers) {
+      const names = await readdir(join(tmpdir(), folder)).catch(() => [] as string[]);
+      expect(names.filter((name) => name.endsWith('.xlsx'))).toEqual([]);
+    }
+  });
+});
