@@ -1,6 +1,6 @@
+import { constants, privateEncrypt } from 'node:crypto';
 import forge from 'node-forge';
 import { Signer } from '@signpdf/signpdf';
-import { forgePrivate } from './personal-certificate.js';
 import type { SigningIdentity } from './signing-identity.js';
 
 /**
@@ -27,7 +27,7 @@ export function detachedSignature(content: Uint8Array, identity: SigningIdentity
   p7.addCertificate(certificate);
   for (const der of identity.chain) p7.addCertificate(fromDer(der));
   p7.addSigner({
-    key: forgePrivate(identity.privateKey),
+    key: nativeKey(identity) as unknown as forge.pki.rsa.PrivateKey,
     certificate,
     digestAlgorithm: forge.pki.oids.sha256!,
     authenticatedAttributes: [
@@ -38,4 +38,24 @@ export function detachedSignature(content: Uint8Array, identity: SigningIdentity
   });
   p7.sign({ detached: true });
   return Buffer.from(forge.asn1.toDer(p7.toAsn1()).getBytes(), 'binary');
+}
+
+/** DER prefix of a SHA-256 DigestInfo (RFC 8017 §9.2, note 1). */
+const sha256DigestInfo = Buffer.from('3031300d060960864801650304020105000420', 'hex');
+
+/**
+ * node-forge asks its key to sign the digest of the signed attributes; this key answers with
+ * node:crypto's RSASSA-PKCS1-v1_5 (native, and the key never leaves its KeyObject).
+ */
+function nativeKey(identity: SigningIdentity): { sign: (md: forge.md.MessageDigest) => string } {
+  return {
+    sign: (md) => {
+      const digest = Buffer.from(md.digest().getBytes(), 'binary');
+      const signature = privateEncrypt(
+        { key: identity.privateKey, padding: constants.RSA_PKCS1_PADDING },
+        Buffer.concat([sha256DigestInfo, digest]),
+      );
+      return signature.toString('binary');
+    },
+  };
 }
