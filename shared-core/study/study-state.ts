@@ -99,7 +99,8 @@ export function deriveState(study: Study, throughHash?: string): StudyState {
     }
   }
 
-  const observations = study.observations.map((observation) => ({ ...observation }));
+  // Copied only where a correction applies: the study's own observations stay the originals.
+  const observations = study.observations.slice();
   const excluded = new Map<number, AssignableCause>();
   const corrections: Correction[] = [];
   const notes: StudyNote[] = [];
@@ -120,7 +121,7 @@ export function deriveState(study: Study, throughHash?: string): StudyState {
       notes.push({ ...pick(event), index, label: event.payload.label, text: event.payload.text });
     else {
       const { field, original, value, label } = event.payload;
-      (observations[index] as unknown as Record<string, unknown>)[field] = value;
+      observations[index] = { ...observations[index], [field]: value };
       corrections.push({ ...pick(event), index, label, field, original, value, reason: event.why });
     }
   }
