@@ -7,6 +7,7 @@ import {
   type Primitive,
 } from '../../src-main/services/packet/chart-layout.js';
 import { chartSvg } from '../../src-main/services/packet/chart-svg.js';
+import { analyzePhaseOne } from '../../shared-core/study/phase-one.js';
 import type { AnalysisResult, PeriodResult } from '../../shared-core/study/analysis-types.js';
 
 /** A hand-made result (not from the engine): the layout only draws what it is given. */
@@ -26,25 +27,14 @@ function result(periods: Partial<PeriodResult>[]): AnalysisResult {
     rules: [],
     ...p,
   }));
-  return {
-    chart: 'u',
-    limits: 'sigma',
-    center: 0.25,
-    rate: 0.25,
-    rateSource: 'estimated',
-    rateInterval: { lower: 0.2, upper: 0.3 },
-    sigmaZ: null,
-    multiplier: 3,
-    alpha: null,
-    fap: 0.01,
-    m: full.length,
-    totals: { count: 10, units: 40 },
-    periods: full,
-    dispersion: { statistic: 1, df: 3, pOver: 0.5, pUnder: 0.5, smallExpected: 0, advice: '' },
-    averageK: null,
-    stable: true,
-    warnings: [],
-  };
+  // Everything but the periods from a real analysis, so the shape stays the engine's.
+  const base = analyzePhaseOne(
+    full.map((p) => ({ label: p.label, row: p.row, count: p.count, units: p.units })),
+    [],
+    { limits: 'sigma', multiplier: 3, alpha: 0.0027, rules: ['beyond'], chart: 'u' },
+  );
+  if (!base.ok) throw new Error('no analysis');
+  return { ...base.value, center: 0.25, rate: 0.25, periods: full };
 }
 
 const dashed = (ps: Primitive[]) =>
