@@ -46,9 +46,12 @@ export class JobRunner {
     const workerInput: WorkerInput = { taskModule: this.taskModule, kind, input, outputPath };
     const worker = new Worker(workerScript(), { workerData: workerInput });
     let finished = false;
+    let settling: Promise<void> | null = null;
 
-    const settle = async (message: WorkerMessage | { type: 'crashed'; message: string }): Promise<void> => {
-      if (finished) return;
+    // The first outcome wins; a later one (the worker's exit after its last message) waits for it.
+    const settle = (message: WorkerMessage | { type: 'crashed'; message: string }): Promise<void> =>
+      (settling ??= conclude(message));
+    const conclude = async (message: WorkerMessage | { type: 'crashed'; message: string }): Promise<void> => {
       finished = true;
       this.running.delete(jobId);
       let event: JobEvent;
