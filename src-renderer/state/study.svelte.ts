@@ -166,6 +166,11 @@ export class StudyState {
     );
   }
 
+  /** Takes the document back from the host after it signed it (its chain is checked like any other). */
+  replaceDocument(document: Study): void {
+    this.document = document;
+  }
+
   exclude(index: number, cause: AssignableCause): boolean {
     return this.#apply((doc) => decisions.exclude(doc, { who: this.user, index, cause }, now()));
   }

@@ -1,0 +1,151 @@
+import { api, ApiError, hostKind } from '../transport/index.js';
+import type { FileHandle } from '../../shared-core/api.js';
+import { studySchema } from '../../shared-core/study/study-schema.js';
+import { study } from './study.svelte.js';
+import { saveDownload } from './downloads.js';
+
+type Meaning = 'prepared' | 'reviewed' | 'approved';
+
+function toBase64(bytes: Uint8Array): string {
+  let binary = '';
+  for (let i = 0; i < bytes.length; i += 0x8000)
+    binary += String.fromCharCode(...bytes.subarray(i, i + 0x8000));
+  return btoa(binary);
+}
+
+function messageOf(error: unknown): string {
+  if (error instanceof ApiError && error.code === 'cancelled') return 'Cancelled; nothing was changed.';
+  if (error instanceof ApiError && error.issues.length > 0)
+    return `${error.message}: ${error.issues.join('; ')}`;
+  return error instanceof Error ? error.message : String(error);
+}
+
+/** The Sign-off screen: who signs with which key, then the packet export with progress and cancel. */
+class SignOff {
+  printedName = $state('');
+  role = $state('');
+  meaning = $state<Meaning>('prepared');
+  key = $state.raw<FileHandle | null>(null);
+  passphrase = $state('');
+  busy = $state<'' | 'sign' | 'export'>('');
+  progress = $state(0);
+  progressMessage = $state('');
+  message = $state('');
+  error = $state('');
+  lastExport = $state.raw<{ fileName: string; url?: string } | null>(null);
+  #abort: AbortController | null = null;
+
+  async chooseKeyFile(file: File): Promise<void> {
+    this.error = '';
+    try {
+      const bytes = new Uint8Array(await file.arrayBuffer());
+      const name = file.name.replace(/[\\/:*?"<>|]+/g, '-').replace(/^\.+/, '') || 'key.p12';
+      this.key = await api.uploadFile({ purpose: 'key', fileName: name, bytes: toBase64(bytes) });
+    } catch (error) {
+      this.error = messageOf(error);
+    }
+  }
+
+  /** In the desktop app the key file comes from the system's dialog; the page never sees its path. */
+  async chooseKeyWithDialog(): Promise<void> {
+    this.error = '';
+    try {
+      const chosen = await api.chooseFile({ purpose: 'key' });
+      if (chosen) this.key = chosen;
+    } catch (error) {
+      this.error = messageOf(error);
+    }
+  }
+
+  get missing(): string[] {
+    const missing: string[] = [];
+    if (!this.printedName.trim()) missing.push('your printed name');
+    if (!this.role.trim()) missing.push('your role');
+    if (!this.key) missing.push('a key file (.p12)');
+    if (!this.passphrase) missing.push('its passphrase');
+    return missing;
+  }
+
+  async sign(): Promise<void> {
+    const document = study.document;
+    if (!document || !this.key || this.missing.length > 0) {
+      this.error = `Still needed: ${this.missing.join(', ')}.`;
+      return;
+    }
+    await this.#run('sign', async (signal) => {
+      const signed = await api.runJob(
+        'signStudy',
+        {
+          document,
+          meaning: this.meaning,
+          printedName: this.printedName.trim(),
+          role: this.role.trim(),
+          key: this.key!.handle,
+          passphrase: this.passphrase,
+        },
+        { signal, onProgress: (f, m) => this.#progress(f, m) },
+      );
+      const parsed = studySchema.safeParse(signed.document);
+      if (!parsed.success) throw new Error('the host returned a study that does not match the schema');
+      study.replaceDocument(parsed.data);
+      this.passphrase = '';
+      this.message = `Signed as ${this.meaning} by ${this.printedName} (certificate ${signed.fingerprint.slice(0, 16)}…).`;
+    });
+  }
+
+  async exportPacket(format: 'pdf' | 'workbook'): Promise<void> {
+    const document = study.document;
+    if (!document) return;
+    await this.#run('export', async (signal) => {
+      let target: string | undefined;
+      if (hostKind === 'electron') {
+        const suggested = `${study.meta.name || 'study'}.${format === 'pdf' ? 'pdf' : 'xlsx'}`.replace(
+          /[\\/:*?"<>|]+/g,
+          '-',
+        );
+        const chosen = await api.chooseSaveTarget({
+          purpose: format === 'pdf' ? 'packet' : 'workbook',
+          suggestedName: suggested,
+        });
+        if (!chosen) return;
+        target = chosen.handle;
+      }
+      const result = await api.runJob(
+        'exportPacket',
+        { document, format, ...(target ? { target } : {}) },
+        { signal, onProgress: (f, m) => this.#progress(f, m) },
+      );
+      this.lastExport = { fileName: result.file.fileName, url: result.downloadUrl };
+      // On the web host the packet arrives as a download; on the desktop it is already where the user chose.
+      if (result.downloadUrl) saveDownload(result.file.fileName, result.downloadUrl);
+      this.message = `The ${format === 'pdf' ? 'signed PDF packet' : 'workbook'} ${result.file.fileName} is ready.`;
+    });
+  }
+
+  cancel(): void {
+    this.#abort?.abort();
+  }
+
+  #progress(fraction: number, message: string): void {
+    this.progress = fraction;
+    this.progressMessage = message;
+  }
+
+  async #run(kind: 'sign' | 'export', work: (signal: AbortSignal) => Promise<void>): Promise<void> {
+    this.error = '';
+    this.message = '';
+    this.busy = kind;
+    this.progress = 0;
+    this.#abort = new AbortController();
+    try {
+      await work(this.#abort.signal);
+    } catch (error) {
+      this.error = messageOf(error);
+    } finally {
+      this.busy = '';
+      this.#abort = null;
+    }
+  }
+}
+
+export const signOff = new SignOff();
