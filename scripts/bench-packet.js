@@ -1,0 +1,109 @@
+// `npm run bench` part: `limit-ledger packet` (signed PDF + workbook + limits exports) as a whole
+// process, for studies of 50, 500 and 5,000 periods. Includes starting Node, loading the modules,
+// opening the key (PBKDF2 with 600,000 iterations) and writing the files. Target: 500 periods
+// within 1.5 s. The empty-process row shows what Node's own start costs on this machine now.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+const load = (file) => import(pathToFileURL(join(root, 'dist', file)).href);
+const cli = join(root, 'bin', 'limit-ledger.js');
+
+function timed(args, env) {
+  let fastest = Infinity;
+  for (let i = 0; i < 2; i++) {
+    const start = process.hrtime.bigint();
+    const run = spawnSync(process.execPath, args, { env, encoding: 'utf8' });
+    const seconds = Number(process.hrtime.bigint() - start) / 1e9;
+    if (run.status !== 0) throw new Error(`${args.join(' ')} failed: ${run.stderr}`);
+    fastest = Math.min(fastest, seconds);
+  }
+  return fastest;
+}
+
+export async function benchPacket() {
+  const { newStudy } = await load('shared-core/study/new-study.js');
+  const { saveStudyFile } = await load('src-main/services/study-file.js');
+  const { addSignOff } = await load('src-main/services/signing/sign-off.js');
+  const { createPersonalIdentity, personalKeyFileText } = await load(
+    'src-main/services/signing/personal-certificate.js',
+  );
+  const { writeOwnerOnly } = await load('src-main/services/signing/key-file.js');
+  const work = mkdtempSync(join(tmpdir(), 'limit-ledger-bench-packet-'));
+  try {
+    const passphrase = 'bench passphrase, not a secret';
+    const identity = await createPersonalIdentity({ name: 'Bench Signer (invented)' });
+    const keyPath = join(work, 'bench.key');
+    await writeOwnerOnly(keyPath, await personalKeyFileText(identity, passphrase));
+    const env = { ...process.env, LL_BENCH_PASS: passphrase };
+    const rows = [{ name: 'node, empty process', seconds: timed(['-e', ''], env), 'PDF KiB': 0 }];
+    for (const periods of [50, 500, 5000]) {
+      // Invented counts: a benchmark load, not data.
+      const observations = Array.from({ length: periods }, (_, i) => ({
+        label: `P${i + 1}`,
+        row: i + 2,
+        count: (i * 7 + 3) % 13,
+        units: 40 + (i % 3) * 10,
+      }));
+      const study = newStudy({
+        id: `bench-${periods}`,
+        identity: {
+          part: 'Invented bench part',
+          processStep: 'bench',
+          characteristic: 'flaws',
+          inspectionUnit: 'one unit',
+          owner: 'bench',
+          demo: true,
+        },
+        source: { file: 'bench.csv', sha256: '0'.repeat(64), importSettings: {}, importReport: {} },
+        observations,
+        method: { limits: 'sigma', multiplier: 3, alpha: 0.0027, rules: ['beyond'] },
+        who: 'bench',
+        now: '2026-12-01T10:00:00.000+00:00',
+      });
+      const signed = addSignOff(study, identity, {
+        printedName: 'Bench Signer',
+        role: 'bench',
+        meaning: 'prepared',
+        now: '2026-12-01T10:00:01.000+00:00',
+      });
+      if (!signed.ok) throw new Error(JSON.stringify(signed.findings));
+      const studyPath = join(work, `bench-${periods}.ledger`);
+      const saved = await saveStudyFile(studyPath, signed.value.study);
+      if (!saved.ok) throw new Error(JSON.stringify(saved.findings));
+      const pdf = join(work, `bench-${periods}.pdf`);
+      const seconds = timed(
+        [
+          cli,
+          'packet',
+          studyPath,
+          '--pdf',
+          pdf,
+          '--xlsx',
+          join(work, `bench-${periods}.xlsx`),
+          '--p12',
+          keyPath,
+          '--passphrase-env',
+          'LL_BENCH_PASS',
+        ],
+        env,
+      );
+      rows.push({
+        name: `packet, ${periods.toLocaleString('en-US')} periods`,
+        seconds,
+        'PDF KiB': Math.round(statSync(pdf).size / 1024),
+      });
+    }
+    const base = rows[1].seconds;
+    return rows.map((row) => ({ ...row, 'relative to 50 periods': row.seconds / base }));
+  } finally {
+    rmSync(work, { recursive: true, force: true });
+  }
+}
+
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
+  console.table(await benchPacket());
+}
