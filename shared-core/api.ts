@@ -178,7 +178,13 @@ export const SaveStudyRequest = z.object({
 });
 
 export const SaveStudyResponse = z.discriminatedUnion('saved', [
-  z.object({ saved: z.literal(true), file: FileHandle, backupKept: z.boolean() }),
+  z.object({
+    saved: z.literal(true),
+    file: FileHandle,
+    backupKept: z.boolean(),
+    /** The document as written (with the site settings it was made under recorded, on first save). */
+    document: z.unknown().optional(),
+  }),
   z.object({ saved: z.literal(false), reason: z.enum(['changed-on-disk', 'refused']), message: z.string() }),
 ]);
 

@@ -49,7 +49,7 @@ export interface HostServices {
     document: unknown,
     overwriteChanged: boolean,
   ): Promise<
-    | { saved: true; backupKept: boolean }
+    | { saved: true; backupKept: boolean; document?: unknown }
     | { saved: false; reason: 'changed-on-disk' | 'refused'; message: string }
   >;
   inspectData(file: {
@@ -178,7 +178,12 @@ export function createHandlers(context: HostContext): Handlers {
       const file = await files.issuePath(path, 'study', true);
       currentStudyName = file.fileName;
       context.onUnsaved?.(false);
-      return { saved: true as const, file, backupKept: outcome.backupKept };
+      return {
+        saved: true as const,
+        file,
+        backupKept: outcome.backupKept,
+        ...(outcome.document !== undefined ? { document: outcome.document } : {}),
+      };
     },
 
     async setUnsaved({ unsaved }) {

@@ -4,6 +4,7 @@ import { basename } from 'node:path';
 import type { StudyView } from '../../shared-core/api.js';
 import { fail, ok, type Finding } from '../../shared-core/result.js';
 import { demoStudy } from '../../shared-core/study/demo-scenario.js';
+import { sealStudy } from '../../shared-core/study/audit-chain.js';
 import { analyzePhaseOne } from '../../shared-core/study/phase-one.js';
 import { hasErrors, type StudyProblem } from '../../shared-core/study/study-problem.js';
 import type { Study } from '../../shared-core/study/study-schema.js';
@@ -59,9 +60,22 @@ export function nodeHostServices(folders: { siteSettings: string }): HostService
   // What each study file held when it was opened or last saved, to notice a change made elsewhere.
   const diskHashes = new Map<string, string>();
 
+  /**
+   * A study records the site settings it was made under: the first time the host creates or saves
+   * it, the settings in force are copied in (and the header resealed); later changes at the site do
+   * not rewrite what an earlier study, or its approval, was held to.
+   */
+  const withSiteSettings = async (study: Study): Promise<Study> => {
+    if (study.siteSettings !== undefined) return study;
+    const settings = await readSiteSettings(folders.siteSettings);
+    return settings.ok ? sealStudy({ ...study, siteSettings: settings.value }) : study;
+  };
+
   return {
     async demoStudy() {
-      const study = demoStudy({ id: randomUUID(), who: hostUser(), now: hostClock() });
+      const study = await withSiteSettings(
+        demoStudy({ id: randomUUID(), who: hostUser(), now: hostClock() }),
+      );
       return { file: null, ...studyView(study, verifyStudy(study)) };
     },
 
@@ -96,7 +110,10 @@ export function nodeHostServices(folders: { siteSettings: string }): HostService
               : `${basename(path)} changed on disk since it was opened; save over it anyway?`,
         };
       }
-      const saved = await saveStudyFile(path, parsed.value.study, {
+      const study = hasErrors(verifyStudy(parsed.value.study))
+        ? parsed.value.study
+        : await withSiteSettings(parsed.value.study);
+      const saved = await saveStudyFile(path, study, {
         expectedDiskHash: overwriteChanged ? undefined : onDisk,
       });
       if (!saved.ok) {
@@ -109,7 +126,7 @@ export function nodeHostServices(folders: { siteSettings: string }): HostService
         };
       }
       diskHashes.set(path, saved.value.diskHash);
-      return { saved: true, backupKept: saved.value.backup !== null };
+      return { saved: true, backupKept: saved.value.backup !== null, document: study };
     },
 
     async inspectData({ fileName, bytes }) {

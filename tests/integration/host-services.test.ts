@@ -124,6 +124,9 @@ describe('the browser host with its real services', () => {
       file: { fileName: 'door panels.ledger' },
       backupKept: false,
     });
+    // The demo was made under the site's settings, and says so; the saved document is handed back.
+    expect(demo.document.siteSettings.defaults.limits).toBe('sigma');
+    expect(first.value.document).toEqual(demo.document);
     const listed = (await call('listWorkspace', {})).value.files;
     const entry = listed.find((file: { fileName: string }) => file.fileName === 'door panels.ledger');
     const reopened = await call('openStudy', { file: entry.handle });
