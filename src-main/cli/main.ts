@@ -41,6 +41,10 @@ export const commands: Record<string, Command> = {
     summary: 'average run lengths of the limits: in control and after rises in the rate',
     load: () => import('./commands/arl.js'),
   },
+  check: {
+    summary: 'judge new periods against the approved limits of a study, without recomputing',
+    load: () => import('./commands/check.js'),
+  },
 };
 
 export function helpText(): string {

@@ -5,8 +5,10 @@ import { normalQuantile } from '../../../shared-core/stats/normal.js';
 import {
   defaultOptions,
   type AnalysisOptions,
+  type AnalysisResult,
   type Exclusion,
   type Observation,
+  type RuleId,
 } from '../../../shared-core/study/analysis-types.js';
 import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
 import {
@@ -17,15 +19,17 @@ import {
 } from '../../../shared-core/changes/average-run-length.js';
 import { importFlagHelp, importFlags } from '../import-flags.js';
 import { periodIndex } from './analyze.js';
-import { importPeriods, InputError } from './compare.js';
+import { importPeriods, InputError, isStudyPath, openBaseline } from './compare.js';
 
 export const usage = `Usage: limit-ledger arl FILE --count COL [--units COL] [--label COL]
   [--chart c|u] [--limits sigma|probability|laney] [--sigma L] [--alpha A | --fap F] [--rate R]
   [--exclude LABEL=REASON]... [--rules LIST] [--shifts LIST] [--at-units K] [--skip-invalid] [--json]
+       limit-ledger arl STUDY [--rules LIST] [--shifts LIST] [--at-units K] [--json]
 
-The average run length of the limits the analysis of FILE sets: the expected number of periods
-to the first signal when the rate stays where it is, and when it rises by the shifts asked
-(exact Poisson counts; one-point rule 1/p, rule sets by a Markov chain).
+The average run length of the limits the analysis of FILE sets, or of the latest approved
+revision of STUDY (.ledger): the expected number of periods to the first signal when the rate
+stays where it is, and when it rises by the shifts asked (exact Poisson counts; one-point rule
+1/p, rule sets by a Markov chain).
 
   ${importFlagHelp.join('\n  ')}
   --chart, --limits, --sigma, --alpha, --fap, --rate, --exclude, --rules   as for analyze
@@ -34,6 +38,19 @@ to the first signal when the rate stays where it is, and when it rises by the sh
   --skip-invalid          leave out invalid rows
   --json                  print one JSON object
 `;
+
+/** Flags that describe a data file and its analysis: a study already fixes them. */
+const studyOnlyFlags = [
+  ...Object.keys(importFlags).filter((flag) => flag !== 'shifts'),
+  'chart',
+  'limits',
+  'sigma',
+  'alpha',
+  'fap',
+  'rate',
+  'exclude',
+  'skip-invalid',
+];
 
 export async function run(argv: string[]): Promise<number> {
   try {
@@ -160,7 +177,6 @@ async function arl(argv: string[]): Promise<number> {
     return 0;
   }
   if (positionals.length !== 1) throw new InputError(`name exactly one data file\n\n${usage}`);
-  const options = methodOptions(values);
   const shifts = values.shifts !== undefined ? parseShifts(values.shifts) : [...defaultShifts];
   const atUnits = positiveNumber(
     values['at-units'],
@@ -168,27 +184,51 @@ async function arl(argv: string[]): Promise<number> {
     (x) => x > 0,
     'must be a positive number of units',
   );
-
-  // --shifts here are rises in the rate (the name the issue gives), not the work-shift starts of
-  // an event list that the import flags also call --shifts.
-  const { shifts: _rises, ...importValues } = values;
-  const outcome = await importPeriods(positionals[0], importValues, values['skip-invalid'] === true);
-  const file = outcome.report.file ?? positionals[0];
-  const observations = outcome.observations;
-  const exclusions = (values.exclude ?? []).map((text) => exclusionFrom(text, observations));
-  const analysis = analyzePhaseOne(observations, exclusions, options);
-  if (!analysis.ok)
-    throw new InputError(analysis.findings.map((f) => describeFinding({ file, ...f })).join('\n'));
-  const result = analysis.value;
+  const target = positionals[0];
+  let file = target;
+  let result: AnalysisResult;
+  let rules: RuleId[];
+  let revision: number | null = null;
+  let rejected: unknown[] = [];
+  if (isStudyPath(target)) {
+    const fixed = studyOnlyFlags.filter((flag) => values[flag as keyof typeof values] !== undefined);
+    if (fixed.length > 0)
+      throw new InputError(
+        `${fixed.map((f) => `--${f}`).join(', ')}: a study's approved revision fixes its method and data; only --rules, --shifts and --at-units apply`,
+      );
+    const baseline = await openBaseline(target);
+    result = baseline.analysis;
+    revision = baseline.revision.number;
+    rules =
+      values.rules !== undefined
+        ? methodOptions({ rules: values.rules }).rules
+        : baseline.revision.method.rules;
+  } else {
+    const options = methodOptions(values);
+    // --shifts here are rises in the rate (the name the issue gives), not the work-shift starts of
+    // an event list that the import flags also call --shifts.
+    const { shifts: _rises, ...importValues } = values;
+    const outcome = await importPeriods(target, importValues, values['skip-invalid'] === true);
+    file = outcome.report.file ?? target;
+    const observations = outcome.observations;
+    const exclusions = (values.exclude ?? []).map((text) => exclusionFrom(text, observations));
+    const analysis = analyzePhaseOne(observations, exclusions, options);
+    if (!analysis.ok)
+      throw new InputError(analysis.findings.map((f) => describeFinding({ file, ...f })).join('\n'));
+    result = analysis.value;
+    rules = options.rules;
+    rejected = outcome.rejected;
+  }
   const units = atUnits ?? typicalUnits(result);
   const at = limitsAtUnits(result, units);
-  const runLength = averageRunLength(at, options.rules, shifts);
+  const runLength = averageRunLength(at, rules, shifts);
   if (!runLength.ok) throw new InputError(runLength.findings.map(describeFinding).join('\n'));
   const curve = runLength.value;
   const scale = result.chart === 'c' ? 1 : 1 / units;
 
   if (values.json) {
     const json = {
+      ...(revision !== null ? { revision } : {}),
       chart: result.chart,
       limits: result.limits,
       center: at.rate * units * scale,
@@ -204,14 +244,14 @@ async function arl(argv: string[]): Promise<number> {
       curve: curve.points,
       stable: result.stable,
       warnings: [...result.warnings, ...curve.warnings],
-      rejected: outcome.rejected,
+      rejected,
     };
     process.stdout.write(`${JSON.stringify(json)}\n`);
     return 0;
   }
   const show = (x: number | null) => (x === null ? 'never' : x >= 1e6 ? x.toExponential(3) : x.toFixed(1));
   const lines = [
-    `${file}: ${result.limits} limits at k = ${units} (center ${(at.rate * units * scale).toPrecision(4)}, UCL ${(at.limits.upper * scale).toPrecision(4)}, LCL ${at.limits.lower === null ? 'none' : (at.limits.lower * scale).toPrecision(4)}); rules ${curve.rules.join(', ')}`,
+    `${file}${revision !== null ? ` (approved revision ${revision})` : ''}: ${result.limits} limits at k = ${units} (center ${(at.rate * units * scale).toPrecision(4)}, UCL ${(at.limits.upper * scale).toPrecision(4)}, LCL ${at.limits.lower === null ? 'none' : (at.limits.lower * scale).toPrecision(4)}); rules ${curve.rules.join(', ')}`,
     'Rate (× center)   Average run length (periods to the first signal)',
     ...curve.points.map(
       (p) => `${`${p.shift}${p.shift === 1 ? ' (in control)' : ''}`.padEnd(18)}${show(p.arl)}`,

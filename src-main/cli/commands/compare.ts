@@ -4,15 +4,18 @@ import type { ImportOutcome } from '../../../shared-core/import/import-report.js
 import type { Observation, Warning } from '../../../shared-core/study/analysis-types.js';
 import { dispersionCheck } from '../../../shared-core/study/dispersion-check.js';
 import { rateRatioTest } from '../../../shared-core/changes/rate-ratio-test.js';
+import { approvedBaseline, type ApprovedBaseline } from '../../../shared-core/changes/approved-baseline.js';
 import { importFile } from '../../services/import/import-file.js';
+import { openStudyFile } from '../../services/study-file.js';
 import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-flags.js';
 
 export const usage = `Usage: limit-ledger compare BASE NEW --count COL [--units COL] [--label COL]
   [--confidence C] [--skip-invalid] [--json]
 
-Compares the rate of nonconformities per inspection unit in NEW with the rate in BASE (two data
-files with the same columns): the ratio new/base, its exact interval and the exact conditional
-test of "no change" (Przyborowski & Wilenski 1940).
+Compares the rate of nonconformities per inspection unit in NEW with the rate in BASE: the ratio
+new/base, its exact interval and the exact conditional test of "no change" (Przyborowski &
+Wilenski 1940). BASE is a data file with the same columns as NEW, or a study (.ledger), meaning
+the included periods of its latest approved revision.
 
   ${importFlagHelp.join('\n  ')}
   --confidence C          confidence of the interval (default 0.95)
@@ -71,6 +74,26 @@ export async function importPeriods(
   return outcome;
 }
 
+/** A path that names a study document rather than a data file. */
+export const isStudyPath = (path: string) => path.toLowerCase().endsWith('.ledger');
+
+/** The latest approved revision of a study file, recomputed as it was approved. */
+export async function openBaseline(file: string): Promise<ApprovedBaseline> {
+  const opened = await openStudyFile(file);
+  if (!opened.ok) throw new InputError(opened.findings.map(describeFinding).join('\n'));
+  if (opened.value.readOnly)
+    throw new InputError(
+      `${file}: the study does not verify, so its approved limits cannot be trusted as a baseline:\n${opened.value.problems
+        .filter((p) => p.level === 'error')
+        .map((p) => `  ${p.message}`)
+        .join('\n')}`,
+    );
+  const baseline = approvedBaseline(opened.value.study);
+  if (!baseline.ok)
+    throw new InputError(baseline.findings.map((f) => describeFinding({ file, ...f })).join('\n'));
+  return baseline.value;
+}
+
 function sampleOf(file: string, observations: readonly Observation[]) {
   const count = observations.reduce((sum, o) => sum + o.count, 0);
   const units = observations.reduce((sum, o) => sum + o.units, 0);
@@ -83,7 +106,29 @@ function sampleOf(file: string, observations: readonly Observation[]) {
           false,
         )
       : null;
-  return { file, periods: observations.length, count, units, rate: count / units, dispersion };
+  return {
+    file,
+    revision: undefined as number | undefined,
+    periods: observations.length,
+    count,
+    units,
+    rate: count / units,
+    dispersion,
+  };
+}
+
+/** The included periods of an approved revision, as one sample. */
+function baselineSample(file: string, baseline: ApprovedBaseline): ReturnType<typeof sampleOf> {
+  const { analysis, revision } = baseline;
+  return {
+    file,
+    revision: revision.number,
+    periods: analysis.m,
+    count: analysis.totals.count,
+    units: analysis.totals.units,
+    rate: analysis.totals.count / analysis.totals.units,
+    dispersion: analysis.dispersion,
+  };
 }
 
 async function compare(argv: string[]): Promise<number> {
@@ -118,9 +163,12 @@ async function compare(argv: string[]): Promise<number> {
       throw new InputError(`--confidence "${values.confidence}" must be a probability between 0 and 1`);
   }
   const skip = values['skip-invalid'] === true;
-  const baseOutcome = await importPeriods(baseFile, values, skip);
+  const studyBase = isStudyPath(baseFile) ? await openBaseline(baseFile) : null;
+  const baseOutcome = studyBase ? null : await importPeriods(baseFile, values, skip);
   const newOutcome = await importPeriods(newFile, values, skip);
-  const base = sampleOf(baseOutcome.report.file ?? baseFile, baseOutcome.observations);
+  const base = studyBase
+    ? baselineSample(baseFile, studyBase)
+    : sampleOf(baseOutcome?.report.file ?? baseFile, baseOutcome?.observations ?? []);
   const changed = sampleOf(newOutcome.report.file ?? newFile, newOutcome.observations);
   const overdispersed = [base, changed].some(
     (s) => s.dispersion !== null && s.dispersion.pOver < DISPERSION_LEVEL,
@@ -130,12 +178,16 @@ async function compare(argv: string[]): Promise<number> {
   if (!test.ok) throw new InputError(test.findings.map(describeFinding).join('\n'));
   const result = test.value;
   const warnings: Warning[] = [
-    ...baseOutcome.report.warnings.map((w) => ({ code: w.code, message: `${base.file}: ${w.message}` })),
+    ...(baseOutcome?.report.warnings ?? []).map((w) => ({
+      code: w.code,
+      message: `${base.file}: ${w.message}`,
+    })),
     ...newOutcome.report.warnings.map((w) => ({ code: w.code, message: `${changed.file}: ${w.message}` })),
     ...result.cautions,
   ];
   const sampleJson = (s: typeof base) => ({
     file: s.file,
+    ...(s.revision !== undefined ? { revision: s.revision } : {}),
     periods: s.periods,
     count: s.count,
     units: s.units,
@@ -159,7 +211,7 @@ async function compare(argv: string[]): Promise<number> {
       test: 'exact conditional test of equal rates (Przyborowski & Wilenski 1940), Clopper–Pearson interval',
       warnings,
       rejected: [
-        ...baseOutcome.rejected.map((r) => ({ file: base.file, ...r })),
+        ...(baseOutcome?.rejected ?? []).map((r) => ({ file: base.file, ...r })),
         ...newOutcome.rejected.map((r) => ({ file: changed.file, ...r })),
       ],
     };
@@ -168,7 +220,7 @@ async function compare(argv: string[]): Promise<number> {
   }
   const number = (x: number | null, digits = 4) => (x === null ? 'unbounded' : x.toPrecision(digits));
   const lines = [
-    `Base: ${base.file}: ${base.count} nonconformities in ${base.units} units over ${base.periods} periods (rate ${number(base.rate)})`,
+    `Base: ${base.file}${base.revision !== undefined ? ` (approved revision ${base.revision})` : ''}: ${base.count} nonconformities in ${base.units} units over ${base.periods} periods (rate ${number(base.rate)})`,
     `New:  ${changed.file}: ${changed.count} nonconformities in ${changed.units} units over ${changed.periods} periods (rate ${number(changed.rate)})`,
     `Rate ratio new/base: ${number(result.ratio)}, ${Math.round(confidence * 100)} % interval ${number(result.ciLow)} to ${number(result.ciHigh)}`,
     `Exact test of no change: p = ${number(result.pValue, 3)}`,
