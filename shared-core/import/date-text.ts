@@ -79,8 +79,12 @@ function normalTime(time: string | undefined): string | undefined {
   return `${pad(Number(hours))}:${minutes}:${pad(Number(seconds))}`;
 }
 
+const monthLengths = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
+/** Gregorian calendar: February has 29 days in years divisible by 4, except centuries not divisible by 400. */
 function daysInMonth(year: number, month: number): number {
-  return new Date(Date.UTC(year, month, 0)).getUTCDate();
+  const leap = (year % 4 === 0 && year % 100 !== 0) || year % 400 === 0;
+  return month === 2 && leap ? 29 : monthLengths[month - 1];
 }
 
 /** The ISO date (or date-time) of valid parts, or a message saying what is wrong. */

@@ -11,7 +11,7 @@ import type { ChangedCell, ImportOutcome, ImportReport, ImportWarning, Rejection
 import type { ImportSettings } from './import-settings.js';
 import type { PeriodKey } from './period-key.js';
 import { dayKey, defaultShiftStarts, shiftKey, shiftStartMinutes, weekKey } from './period-key.js';
-import { readCount, readUnits, sourceLocation } from './read-observations.js';
+import { appendCapped, readCount, readUnits, sourceLocation } from './read-observations.js';
 
 export type EventPeriod = 'lot' | 'shift' | 'day' | 'week';
 
@@ -235,7 +235,11 @@ export function readEventPeriods(
   }
 
   // Units from a second table: its periods with no event are periods with 0 nonconformities.
-  const warnings: ImportWarning[] = (events.notes ?? []).map((note) => ({ ...note }));
+  const warnings: ImportWarning[] = [];
+  appendCapped(
+    warnings,
+    (events.notes ?? []).map((note) => ({ ...note })),
+  );
   let unitsReport: ImportReport['unitsTable'];
   const unitsOrder: string[] = [];
   if (settings.unitsTable) {
@@ -322,8 +326,9 @@ export function readEventPeriods(
       rejectedRows: rejectedUnitRows,
       noProduction: idleRows,
     };
-    warnings.push(
-      ...(table.notes ?? []).map((note) => ({ ...note, message: `${unitsFile}: ${note.message}` })),
+    appendCapped(
+      warnings,
+      (table.notes ?? []).map((note) => ({ ...note, message: `${unitsFile}: ${note.message}` })),
     );
   } else if (unitsColumn === undefined) {
     warnings.push({

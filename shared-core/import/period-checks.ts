@@ -55,13 +55,12 @@ export function dateGapWarnings(periods: Observation[], column: string): ImportW
   if (dated.length < 3) return [];
   const days = dated.map((period) => dayNumber(period.date!));
   const monthly = new Set(dated.map((period) => period.date!.slice(8, 10))).size === 1;
-  const position = (period: Observation) =>
-    monthly
-      ? Number(period.date!.slice(0, 4)) * 12 + Number(period.date!.slice(5, 7))
-      : dayNumber(period.date!);
+  const positions = monthly
+    ? dated.map((period) => Number(period.date!.slice(0, 4)) * 12 + Number(period.date!.slice(5, 7)))
+    : days;
   const workingDays = days.every((day) => weekday(day) !== 0 && weekday(day) !== 6);
   const steps: number[] = [];
-  for (let i = 1; i < dated.length; i++) steps.push(position(dated[i]) - position(dated[i - 1]));
+  for (let i = 1; i < dated.length; i++) steps.push(positions[i] - positions[i - 1]);
   const usual = mode(steps.filter((step) => step > 0));
   if (usual === undefined) return [];
   const warnings: ImportWarning[] = [];

@@ -93,6 +93,7 @@ export function readObservations(
             };
           });
   const order = chooseDateOrder(dateCells, settings.dateOrder);
+  const partsByRow = new Map(dateCells.map((cell) => [cell.row, cell.parts]));
   if (order.kind !== 'chosen') {
     if (order.kind === 'mixed') return fail({ file, column: order.dmy.column, message: order.message });
     const { row, column, text } = order.example;
@@ -148,7 +149,7 @@ export function readObservations(
       if (isBlankCell(dateCell)) {
         problems.push({ row, column: name(columns.date), value: '', message: 'the date is blank' });
       } else {
-        const resolvedDate = resolveDate(dateParts(dateCell), order.order);
+        const resolvedDate = resolveDate(partsByRow.get(row) ?? dateParts(dateCell), order.order);
         if ('message' in resolvedDate) {
           problems.push({
             row,
@@ -168,36 +169,39 @@ export function readObservations(
     const label = labelText === '' ? `#${row}` : (dateLabel(cell(columns.label)) ?? labelText);
 
     if (problems.length > 0) {
-      rejected.push(...problems);
+      for (const problem of problems) rejected.push(problem);
       rejectedRows++;
       continue;
     }
-    changedCells.push(...changes);
+    for (const change of changes) changedCells.push(change);
     const observation: Observation = { label, row, count: count!, units: units! };
     if (date !== undefined) observation.date = date;
     (idle ? noProduction : observations).push(observation);
   }
 
-  const warnings: ImportWarning[] = (table.notes ?? []).map((note) => ({ ...note }));
-  if (columns.label !== undefined)
-    warnings.push(...duplicateLabelWarnings([...observations, ...noProduction], name(columns.label)));
-  if (columns.label !== undefined) warnings.push(...blankLabelWarnings(table, columns, name(columns.label)));
+  const warnings: ImportWarning[] = [];
+  const warn = (list: ImportWarning[]) => appendCapped(warnings, list);
+  warn((table.notes ?? []).map((note) => ({ ...note })));
+  if (columns.label !== undefined) {
+    warn(duplicateLabelWarnings(observations.concat(noProduction), name(columns.label)));
+    warn(blankLabelWarnings(table, columns, name(columns.label)));
+  }
   if (columns.date !== undefined) {
-    const inFileOrder = [...observations, ...noProduction].sort((a, b) => a.row - b.row);
-    warnings.push(...dateOrderWarnings(inFileOrder, name(columns.date)));
+    const inFileOrder = observations.concat(noProduction).sort((a, b) => a.row - b.row);
+    warn(dateOrderWarnings(inFileOrder, name(columns.date)));
     observations.sort(byDateThenRow);
     noProduction.sort(byDateThenRow);
-    const allPeriods = [...observations, ...noProduction].sort(byDateThenRow);
-    warnings.push(...dateGapWarnings(allPeriods, name(columns.date)));
+    warn(dateGapWarnings(observations.concat(noProduction).sort(byDateThenRow), name(columns.date)));
   }
-  for (const row of table.rows) {
-    if (row.hidden)
-      warnings.push({
+  warn(
+    table.rows
+      .filter((row) => row.hidden)
+      .map((row) => ({
         code: 'hidden-row',
         row: row.row,
         message: 'the row is hidden in the workbook; it is read like any other row',
-      });
-  }
+      })),
+  );
 
   const source = table.source;
   const report: ImportReport = {
@@ -238,6 +242,29 @@ export function readObservations(
   return ok({ observations, rejected, noProduction, report });
 }
 
+/** Warnings of one kind beyond this many are summed up in one line (rejections never are). */
+export const warningsPerCode = 20;
+
+/**
+ * Appends warnings, keeping the first `warningsPerCode` of each code and one line that counts the
+ * rest, so that a reversed million-row file gives a readable report.
+ */
+export function appendCapped(warnings: ImportWarning[], more: ImportWarning[]): void {
+  const kept = new Map<string, number>();
+  for (const warning of warnings) kept.set(warning.code, (kept.get(warning.code) ?? 0) + 1);
+  const over = new Map<string, number>();
+  for (const warning of more) {
+    const count = kept.get(warning.code) ?? 0;
+    if (count < warningsPerCode) {
+      warnings.push(warning);
+      kept.set(warning.code, count + 1);
+    } else over.set(warning.code, (over.get(warning.code) ?? 0) + 1);
+  }
+  for (const [code, count] of over) {
+    warnings.push({ code, message: `and ${count} more like the ${warningsPerCode} above (${code})` });
+  }
+}
+
 /** The file, and the sheet of a workbook, as messages name them: `h.xlsx, sheet "Line 4"`. */
 export function sourceLocation(table: DecodedTable): string {
   return table.sheet === undefined ? table.file : `${table.file}, sheet "${table.sheet}"`;
@@ -276,7 +303,8 @@ function numberCells(table: DecodedTable, columns: ResolvedColumns): NumberCellT
     if (index === undefined) continue;
     for (const row of table.rows) {
       const cell = row.cells[index];
-      if (typeof cell === 'string' && cell.trim() !== '')
+      // Only cells with a point or a comma can tell the decimal mark.
+      if (typeof cell === 'string' && (cell.includes(',') || cell.includes('.')))
         cells.push({ row: row.row, column: table.header[index], text: cell.trim() });
     }
   }

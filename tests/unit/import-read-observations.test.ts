@@ -291,4 +291,15 @@ describe('readObservations', () => {
       'is a date, not a number',
     ]);
   });
+
+  it('sums up warnings beyond 20 of a kind, even for a reversed table of 150,000 rows', () => {
+    const day = (i: number) => new Date(Date.UTC(2000, 0, 1) + i * 86_400_000).toISOString().slice(0, 10);
+    const rows = Array.from({ length: 150_000 }, (_, i) => [day(150_000 - i), '1']);
+    const outcome = read(table(['date', 'count'], rows), { count: 'count', date: 'date' });
+    const order = outcome.report.warnings.filter((w) => w.code === 'date-order');
+    expect(order).toHaveLength(21);
+    expect(order[20].message).toBe('and 149979 more like the 20 above (date-order)');
+    expect(outcome.observations[0].date).toBe(day(1));
+    expect(outcome.report.accepted).toBe(150_000);
+  });
 });
