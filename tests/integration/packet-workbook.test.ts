@@ -36,6 +36,7 @@ const cases: Record<string, PacketContent> = {
     { limits: 'probability', multiplier: 3, alpha: 0.0027, rules: ['beyond'] },
     inventedObservations(30, 11).map((o) => ({ ...o, units: 50 })),
   ),
+  typedText: typedTextContent(),
   knownRate: inventedContent(25, {
     limits: 'sigma',
     multiplier: 2.5,
@@ -45,6 +46,19 @@ const cases: Record<string, PacketContent> = {
   }),
 };
 const recalculated: Record<string, WorkbookStatement> = {};
+const recalculatedBooks: Record<string, ExcelJS.Workbook> = {};
+
+/** A user who typed formulas into a label, a cause and the reaction plan. */
+function typedTextContent(): PacketContent {
+  const observations = inventedObservations(20).map((o, i) => (i === 2 ? { ...o, label: '=1+1' } : o));
+  const content = inventedContent(20, undefined, observations);
+  content.exclusions[0]!.cause = {
+    category: '@SUM(A1)',
+    description: '+cmd|" /C calc"!A0',
+    reference: '-2+3',
+  };
+  return content;
+}
 let sabotagedStatement: WorkbookStatement;
 
 beforeAll(async () => {
@@ -68,8 +82,12 @@ beforeAll(async () => {
   files.push(sabotagedPath);
   const converted = recalculateWithLibreOffice(files); // one LibreOffice start for every case
   sabotagedStatement = await readWorkbookStatement(readBytes(converted.at(-1)!));
-  for (const [i, name] of names.entries())
+  for (const [i, name] of names.entries()) {
     recalculated[name] = await readWorkbookStatement(readBytes(converted[i]!));
+    const book = new ExcelJS.Workbook();
+    await book.xlsx.load(readBytes(converted[i]!) as unknown as ExcelJS.Buffer);
+    recalculatedBooks[name] = book;
+  }
 }, 120_000);
 
 describe.each(Object.keys(cases))('the %s workbook, recalculated by LibreOffice', (name) => {
@@ -101,6 +119,22 @@ describe.each(Object.keys(cases))('the %s workbook, recalculated by LibreOffice'
     const sheet = recalculated[name]!;
     if (cases[name]!.result.limits === 'probability') expect(sheet.checksHold).toBe(true);
     else expect(sheet.checksHold).toBeNull();
+  });
+});
+
+describe('text a user typed', () => {
+  it('stays text after LibreOffice recalculates: never run as a formula', () => {
+    const book = recalculatedBooks.typedText!;
+    expect(book.getWorksheet('Data')!.getCell('B4').value).toBe('=1+1');
+    const exclusions = book.getWorksheet('Exclusions')!;
+    expect(exclusions.getCell('B2').value).toBe('@SUM(A1)');
+    expect(exclusions.getCell('C2').value).toBe('+cmd|" /C calc"!A0');
+    expect(exclusions.getCell('D2').value).toBe('-2+3');
+    const signOff = book.getWorksheet('Sign-off')!;
+    const plan = [...Array(12).keys()]
+      .map((r) => signOff.getRow(r + 1).getCell(2).value)
+      .find((v) => String(v).startsWith('=HYPERLINK'));
+    expect(plan).toMatch(/^=HYPERLINK\("http:\/\/example.invalid"\) Stop the line/);
   });
 });
 

@@ -269,6 +269,19 @@ export async function buildWorkbook(content: PacketContent, options: WorkbookOpt
       text(s.state === 'valid' ? 'valid' : `${s.state}: ${s.note ?? ''}`),
     ]),
   );
+  const signOffSheet = book.getWorksheet('Sign-off')!;
+  const revisionTop = content.signOffs.length + 4;
+  const revisionRows: [string, string][] = [
+    ['Revision', `${content.revision.number} (${content.revision.status})`],
+    ['Effective date', content.revision.effectiveDate ?? ''],
+    ['Review date', content.revision.reviewDate ?? ''],
+    ['Reaction plan', content.revision.reactionPlan ?? ''],
+    ['Study id', content.studyId],
+  ];
+  revisionRows.forEach(([label, value], i) => {
+    signOffSheet.getRow(revisionTop + i).getCell(1).value = label;
+    signOffSheet.getRow(revisionTop + i).getCell(2).value = text(value);
+  });
   table(
     book.addWorksheet('Audit'),
     ['Seq', 'Time (local clock)', 'Who', 'What', 'Hash'],
