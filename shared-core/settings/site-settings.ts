@@ -52,31 +52,3 @@ export const defaultSiteSettings: SiteSettings = {
   paperSize: 'A4',
   trustedCertificates: [],
 };
-
-/** Whether the signers of a revision satisfy the site's sign-off rule; returns what is missing. */
-export function missingSignOffs(
-  settings: SiteSettings,
-  signOffs: readonly { meaning: SignOffMeaning; fingerprint: string }[],
-): string[] {
-  const problems: string[] = [];
-  for (const meaning of settings.signOff.required) {
-    if (!signOffs.some((signOff) => signOff.meaning === meaning))
-      problems.push(`no "${meaning}" sign-off yet`);
-  }
-  if (settings.signOff.separatePeople) {
-    const byFingerprint = new Map<string, SignOffMeaning[]>();
-    for (const { meaning, fingerprint } of signOffs) {
-      if (!settings.signOff.required.includes(meaning)) continue;
-      byFingerprint.set(fingerprint.toLowerCase(), [
-        ...(byFingerprint.get(fingerprint.toLowerCase()) ?? []),
-        meaning,
-      ]);
-    }
-    for (const meanings of byFingerprint.values()) {
-      const distinct = [...new Set(meanings)];
-      if (distinct.length > 1)
-        problems.push(`one key signed as ${distinct.join(' and ')}; the site requires separate people`);
-    }
-  }
-  return problems;
-}
