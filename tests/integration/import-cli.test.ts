@@ -87,7 +87,17 @@ describe('limit-ledger analyze: bad input', () => {
       'bad.csv, row 3, column "defects": "2.5" is not a whole number of nonconformities',
     );
     expect(run.stderr).toContain('bad.csv, row 4, column "boards"');
-    expect(run.stderr).toContain('bad.csv, row 5, column "defects"');
+    expect(run.stderr).toContain(
+      'bad.csv, row 5, column "defects": the cell is blank; a blank is never read as 0',
+    );
+  });
+
+  it('names the sheet of a workbook in its messages', async () => {
+    const run = await runCli(['analyze', join(dir, 'history.xlsx'), '--sheet', 'Units', '--count', 'day']);
+    expect(run.status).toBe(2);
+    expect(run.stderr).toContain(
+      'history.xlsx, sheet "Units", row 2, column "day": "2026-03-02" is not a number',
+    );
   });
 
   it('asks for the date order instead of guessing', async () => {

@@ -14,7 +14,7 @@ import {
 import { iterationHistory, iterationSnapshot } from '../../../shared-core/study/iteration-history.js';
 import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
 import { normalQuantile } from '../../../shared-core/stats/normal.js';
-import type { ImportOutcome } from '../../../shared-core/import/import-report.js';
+import { rejectionFinding, type ImportOutcome } from '../../../shared-core/import/import-report.js';
 import { importFile } from '../../services/import/import-file.js';
 import { saveAnalysisStudy } from '../../services/study-from-analysis.js';
 import { importFlags, importRequestFromFlags } from '../import-flags.js';
@@ -102,15 +102,7 @@ async function analyze(argv: string[]): Promise<number> {
   if (!imported.ok) throw new InputError(imported.findings.map(describeFinding).join('\n'));
   const outcome = imported.value;
   if (outcome.rejected.length > 0 && !values['skip-invalid']) {
-    const lines = outcome.rejected.map((r) =>
-      describeFinding({
-        file: outcome.report.file ?? file,
-        row: r.row,
-        column: r.column,
-        value: r.value,
-        message: r.message,
-      }),
-    );
+    const lines = outcome.rejected.map((r) => describeFinding(rejectionFinding(outcome.report.location, r)));
     throw new InputError(
       `${lines.join('\n')}\n${outcome.rejected.length} invalid cell(s); fix them, or use --skip-invalid to analyze the other rows`,
     );
