@@ -52,6 +52,8 @@ export function canonicalJson(value: unknown): string {
       throw fault('only plain objects have a canonical form');
     // Array.prototype.sort without a comparator compares UTF-16 code units, as RFC 8785 §3.2.3 asks.
     const keys = Object.keys(object).sort();
+    const flat = flatCopy(object, keys);
+    if (flat !== null) return JSON.stringify(flat);
     let text = '{';
     let first = true;
     for (const key of keys) {
@@ -67,6 +69,34 @@ export function canonicalJson(value: unknown): string {
 
   return write(value);
 }
+
+/**
+ * The fast path for the common leaf object (every member a string, boolean, null or finite
+ * number): a copy with its members inserted in sorted order, which JSON.stringify then writes
+ * exactly as RFC 8785 does. Not taken when a key looks like an array index, since JavaScript
+ * enumerates those first whatever the insertion order.
+ */
+function flatCopy(object: Record<string, unknown>, sortedKeys: string[]): Record<string, unknown> | null {
+  const copy: Record<string, unknown> = {};
+  for (const key of sortedKeys) {
+    const member = object[key];
+    const kind = typeof member;
+    if (
+      kind === 'object'
+        ? member !== null
+        : kind === 'number'
+          ? !Number.isFinite(member)
+          : kind !== 'string' && kind !== 'boolean' && kind !== 'undefined'
+    ) {
+      return null;
+    }
+    if (indexLike.test(key)) return null;
+    copy[key] = member;
+  }
+  return copy;
+}
+
+const indexLike = /^(?:0|[1-9][0-9]*)$/;
 
 /** Strings that need no escape (the common case) skip JSON.stringify; its escaping is RFC 8785's. */
 // eslint-disable-next-line no-control-regex -- control characters are exactly what must be escaped
