@@ -35,7 +35,7 @@ beforeAll(() => {
       'LL_DANA',
     ]).status,
   ).toBe(0);
-}, 60_000);
+}, 120_000);
 
 describe('limit-ledger sign, packet, verify and countersign', () => {
   it('runs the whole path and verify exits 0', () => {
@@ -117,7 +117,7 @@ describe('limit-ledger sign, packet, verify and countersign', () => {
     ]);
     expect(countersigned.out).toMatch(/2 signatures/);
     expect(limitLedger(['verify', 'countersigned.pdf', '--workbook', 'packet.xlsx']).status).toBe(0);
-  });
+  }, 180_000);
 
   it('exits 1 for a packet changed after signing', () => {
     copyFileSync(join(folder, 'packet.pdf'), join(folder, 'changed.pdf'));
@@ -127,7 +127,7 @@ describe('limit-ledger sign, packet, verify and countersign', () => {
     const verified = limitLedger(['verify', 'changed.pdf']);
     expect(verified.out).toMatch(/NOT VERIFIED/);
     expect(verified.status).toBe(1);
-  });
+  }, 180_000);
 
   it('never takes a passphrase as a command-line value, and refuses EC keys', () => {
     const typed = limitLedger([
@@ -163,5 +163,5 @@ describe('limit-ledger sign, packet, verify and countersign', () => {
     );
     expect(result.status).toBe(2);
     expect(result.stderr).toMatch(/elliptic-curve \(EC\) key; Limit Ledger signs with RSA keys only/);
-  });
+  }, 180_000);
 });

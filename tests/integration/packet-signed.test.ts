@@ -54,7 +54,7 @@ beforeAll(async () => {
   if (!made.ok) throw new Error(JSON.stringify(made.findings));
   pdf = readFileSync(pdfPath);
   workbook = readFileSync(xlsxPath);
-}, 60_000);
+}, 120_000);
 
 function makP12() {
   return makeP12(folder, 'company', 'rsa', 'Dana Okafor');
@@ -228,7 +228,7 @@ describe('what the PDF says', () => {
 });
 
 describe('tampering', () => {
-  it('fails verify for a one-byte change anywhere in the signed range', async () => {
+  it('fails verify for a one-byte change anywhere in the signed range', { timeout: 120_000 }, async () => {
     const [signature] = findSignatures(pdf);
     const [, length1, start2, length2] = signature!.byteRange;
     const positions = [
@@ -243,30 +243,34 @@ describe('tampering', () => {
     }
   });
 
-  it('fails verify when the embedded study was changed before the PDF was made (and signed)', async () => {
-    const forged = structuredClone(study);
-    forged.observations[3]!.count += 5; // a changed count, not through a correction
-    const studyPath = writeStudy(folder, 'forged.ledger', forged);
-    const { readFile } = await import('node:fs/promises');
-    const { packetFiles } = await import('../../src-main/services/packet/make-packet.js');
-    const { packetContent } = await import('../../src-main/services/packet/packet-from-study.js');
-    const content = packetContent({
-      study: forged,
-      revision: forged.revisions.at(-1)!,
-      studyBytes: await readFile(studyPath),
-      studyFileName: 'forged.ledger',
-      generatedAt: '2026-12-01T12:00:00.000+01:00',
-    });
-    if (!content.ok) throw new Error('no content');
-    const files = await packetFiles(content.value, { paper: 'a4', identity: company });
-    const verdict = await verifyPacket({ pdf: files.pdf, workbook: files.workbook });
-    expect(verdict.ok).toBe(false);
-    const failed = verdict.lines
-      .filter((l) => !l.ok)
-      .map((l) => l.text)
-      .join('\n');
-    expect(failed).toMatch(/record is broken|VOID/);
-  });
+  it(
+    'fails verify when the embedded study was changed before the PDF was made (and signed)',
+    { timeout: 60_000 },
+    async () => {
+      const forged = structuredClone(study);
+      forged.observations[3]!.count += 5; // a changed count, not through a correction
+      const studyPath = writeStudy(folder, 'forged.ledger', forged);
+      const { readFile } = await import('node:fs/promises');
+      const { packetFiles } = await import('../../src-main/services/packet/make-packet.js');
+      const { packetContent } = await import('../../src-main/services/packet/packet-from-study.js');
+      const content = packetContent({
+        study: forged,
+        revision: forged.revisions.at(-1)!,
+        studyBytes: await readFile(studyPath),
+        studyFileName: 'forged.ledger',
+        generatedAt: '2026-12-01T12:00:00.000+01:00',
+      });
+      if (!content.ok) throw new Error('no content');
+      const files = await packetFiles(content.value, { paper: 'a4', identity: company });
+      const verdict = await verifyPacket({ pdf: files.pdf, workbook: files.workbook });
+      expect(verdict.ok).toBe(false);
+      const failed = verdict.lines
+        .filter((l) => !l.ok)
+        .map((l) => l.text)
+        .join('\n');
+      expect(failed).toMatch(/record is broken|VOID/);
+    },
+  );
 
   it('fails verify for a changed workbook: one byte, or a changed limit cell', async () => {
     const flipped = Buffer.from(workbook);

@@ -88,7 +88,7 @@ beforeAll(async () => {
     await book.xlsx.load(readBytes(converted[i]!) as unknown as ExcelJS.Buffer);
     recalculatedBooks[name] = book;
   }
-}, 120_000);
+}, 240_000);
 
 describe.each(Object.keys(cases))('the %s workbook, recalculated by LibreOffice', (name) => {
   it('states the core’s center and every period’s limits within 1e-9', () => {
