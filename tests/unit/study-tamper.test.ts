@@ -119,6 +119,19 @@ describe('tampering with a study is detected', () => {
     expect(errors(study)).toEqual(expect.arrayContaining(['not-bound@1']));
   });
 
+  it('a changed identity or revision shows through the sealed header', () => {
+    const edits: ((study: Study) => void)[] = [
+      (study) => (study.identity.part = 'another part'),
+      (study) => (study.revisions = [revisionAt(study, 9)]),
+      (study) => (study.siteSettings = { logo: 'x' }),
+    ];
+    for (const edit of edits) {
+      const study = clone(tenEvents());
+      edit(study);
+      expect(errors(study)).toContain('content-mismatch@null');
+    }
+  });
+
   it('changed observations, source, import settings or method show against what the chain recorded', () => {
     const edits: ((study: Study) => void)[] = [
       (study) => (study.observations[3].count += 1),
