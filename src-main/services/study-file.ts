@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import { copyFile, link, open, readFile, readdir, rename, unlink } from 'node:fs/promises';
+import { copyFile, link, open, readFile, readdir, rename, stat, unlink } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { fail, ok, type Result } from '../../shared-core/result.js';
 import { formatStudy, parseStudy } from '../../shared-core/study/study-text.js';
@@ -107,7 +107,7 @@ async function writeStudy(path: string, text: string, options: SaveOptions): Pro
   await sweepTemporaries(folder, name);
   const temporary = join(folder, `.${name}.${process.pid}.${++temporaryCounter}.tmp`);
   try {
-    await writeDurably(temporary, text);
+    await writeDurably(temporary, text, await permissionsOf(path));
     // Checked again just before the rename: the window for a missed change is the rename itself.
     const changedSince = await changedOnDisk(path, options.expectedDiskHash);
     if (changedSince) {
@@ -153,9 +153,19 @@ function isRunning(pid: number): boolean {
   }
 }
 
-async function writeDurably(path: string, text: string): Promise<void> {
-  const handle = await open(path, 'wx', 0o644);
+/** The permissions of the file being replaced, so that a study kept private stays private. */
+async function permissionsOf(path: string): Promise<number | null> {
   try {
+    return (await stat(path)).mode & 0o777;
+  } catch {
+    return null;
+  }
+}
+
+async function writeDurably(path: string, text: string, mode: number | null): Promise<void> {
+  const handle = await open(path, 'wx', mode ?? 0o644);
+  try {
+    if (mode !== null) await handle.chmod(mode);
     await handle.writeFile(text, 'utf8');
     await handle.sync();
   } finally {

@@ -1,4 +1,12 @@
-import { mkdtempSync, readFileSync, readdirSync, writeFileSync, existsSync } from 'node:fs';
+import {
+  chmodSync,
+  existsSync,
+  mkdtempSync,
+  readFileSync,
+  readdirSync,
+  statSync,
+  writeFileSync,
+} from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
@@ -56,6 +64,21 @@ describe('study files', () => {
     expect(readFileSync(`${path}.bak`, 'utf8')).toBe(formatStudy(one));
     expect(readFileSync(path, 'utf8')).toBe(formatStudy(two));
     expect(readdirSync(folder).sort()).toEqual(['line-4.ledger', 'line-4.ledger.bak']);
+  });
+
+  it.skipIf(process.platform === 'win32')('keeps the permissions of the file it replaces', async () => {
+    const path = join(folder, 'private.ledger');
+    const saved = value(await saveStudyFile(path, sampleStudy(), { expectedDiskHash: null }));
+    chmodSync(path, 0o600);
+    const next = value(
+      exclude(
+        sampleStudy(),
+        { who: 'A. Tester', index: 0, cause: { category: 'x', description: 'y' } },
+        at(1),
+      ),
+    );
+    value(await saveStudyFile(path, next, { expectedDiskHash: saved.diskHash }));
+    expect(statSync(path).mode & 0o777).toBe(0o600);
   });
 
   it('refuses to overwrite a file that another process changed since it was opened', async () => {
