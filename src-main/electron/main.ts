@@ -78,7 +78,15 @@ async function start(): Promise<void> {
   const logsFolder = app.getPath('logs');
   const log = fileLog(logsFolder);
   log(`start ${app.getVersion()} electron ${process.versions.electron}`);
-  process.on('uncaughtException', (error) => log(`uncaught: ${error.stack ?? error.message}`));
+  process.on('uncaughtException', (error) => {
+    // Logged, told, and stopped: the autosave copy is offered on the next start.
+    log(`uncaught: ${error.stack ?? error.message}`);
+    dialog.showErrorBox(
+      'Limit Ledger stopped',
+      `An unexpected error stopped the app. The log is in ${logsFolder}.`,
+    );
+    app.exit(1);
+  });
 
   const appSession = session.defaultSession;
   appSession.setPermissionRequestHandler((_contents, permission, callback) =>
