@@ -143,6 +143,15 @@ describe('average run length of Poisson counts', () => {
     if (result.ok) expect(result.value.points[0].arl).toBeGreaterThan(1);
   });
 
+  it('scales z by Laney σz and warns that Poisson run lengths flatter over-dispersed data', () => {
+    const laney = { rate: 2, units: 2, limits: sigmaLimits(2, 2, 3, 1.5), sigmaZ: 1.5 };
+    const result = averageRunLength(laney, ['beyond'], [2]);
+    if (!result.ok) throw new Error('no result');
+    // UCL = 4 + 3·1.5·2 = 13, so p = P(X ≥ 14) for X ~ Poisson(4) (@stdlib).
+    expect(result.value.points[0].arl).toBeCloseTo(1 / (1 - poissonCdf(13, 4)), 4);
+    expect(result.value.warnings.map((w) => w.code)).toContain('arl-poisson-only');
+  });
+
   it('takes the limits of an analysis at its typical k', () => {
     const observations = [5, 3, 4, 6, 2, 4, 5, 3].map((count, i) => ({
       label: `P${i + 1}`,
