@@ -23,8 +23,10 @@ export function columnIndex(header: string[], name: string): { index: number } |
   if (loose.length === 1) return { index: loose[0] };
   const found = header.map((candidate) => `"${candidate}"`).join(', ');
   if (loose.length > 1)
-    return { message: `more than one column is named like "${name}" (columns found: ${found})` };
-  return { message: `there is no column "${name}" (columns found: ${found || 'none'})` };
+    return {
+      message: `more than one column of the header row is named like "${name}" (columns found: ${found})`,
+    };
+  return { message: `there is no column "${name}" in the header row (columns found: ${found || 'none'})` };
 }
 
 export type ResolvedColumns = { [role in ColumnRole]?: number } & { count: number };
@@ -47,7 +49,7 @@ export function resolveColumns(
     }
     const found = columnIndex(header, name);
     if ('message' in found) {
-      findings.push({ file, row: headerRow, column: name, message: `${found.message} in the header row` });
+      findings.push({ file, row: headerRow, column: name, message: found.message });
       continue;
     }
     const other = usedBy.get(found.index);

@@ -106,7 +106,7 @@ describe('importFile: XLSX', () => {
       sheet: 'Line 4',
     });
     expect(!result.ok && describeFinding(result.findings[0])).toBe(
-      'nocol.xlsx, sheet "Line 4", row 1, column "Faults": there is no column "Faults" (columns found: "Line 4 solder inspection (invented)") in the header row',
+      'nocol.xlsx, sheet "Line 4", row 1, column "Faults": there is no column "Faults" in the header row (columns found: "Line 4 solder inspection (invented)")',
     );
   });
 

@@ -55,7 +55,7 @@ describe('readObservations', () => {
     if (result.ok) return;
     expect(result.findings).toHaveLength(2);
     expect(describeFinding(result.findings[0])).toBe(
-      'h.csv, row 1, column "count": there is no column "count" (columns found: "lot", "defects") in the header row',
+      'h.csv, row 1, column "count": there is no column "count" in the header row (columns found: "lot", "defects")',
     );
   });
 
