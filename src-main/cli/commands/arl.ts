@@ -176,7 +176,8 @@ async function arl(argv: string[]): Promise<number> {
     process.stdout.write(usage);
     return 0;
   }
-  if (positionals.length !== 1) throw new InputError(`name exactly one data file\n\n${usage}`);
+  if (positionals.length !== 1)
+    throw new InputError(`name exactly one data file or study (.ledger)\n\n${usage}`);
   const shifts = values.shifts !== undefined ? parseShifts(values.shifts) : [...defaultShifts];
   const atUnits = positiveNumber(
     values['at-units'],
