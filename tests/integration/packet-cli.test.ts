@@ -1,8 +1,8 @@
 import { spawnSync } from 'node:child_process';
-import { closeSync, copyFileSync, openSync, readFileSync, writeFileSync } from 'node:fs';
+import { closeSync, copyFileSync, openSync, readFileSync, writeFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeP12 } from '../unit/signing-fixtures.js';
 import { scratch } from './packet-tools.js';
 
@@ -36,6 +36,8 @@ beforeAll(() => {
     ]).status,
   ).toBe(0);
 }, 120_000);
+
+afterAll(() => rmSync(folder, { recursive: true, force: true }));
 
 describe('limit-ledger sign, packet, verify and countersign', () => {
   it('runs the whole path and verify exits 0', () => {

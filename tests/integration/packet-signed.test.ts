@@ -1,7 +1,7 @@
-import { readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync, writeFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import ExcelJS from 'exceljs';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makePacket } from '../../src-main/services/packet/make-packet.js';
 import { verifyPacket } from '../../src-main/services/packet/packet-verify.js';
 import { findSignatures, signPdf, signedBytes } from '../../src-main/services/packet/pdf-signature.js';
@@ -55,6 +55,8 @@ beforeAll(async () => {
   pdf = readFileSync(pdfPath);
   workbook = readFileSync(xlsxPath);
 }, 120_000);
+
+afterAll(() => rmSync(folder, { recursive: true, force: true }));
 
 function makP12() {
   return makeP12(folder, 'company', 'rsa', 'Dana Okafor');

@@ -1,6 +1,6 @@
-import { readFileSync, statSync, writeFileSync, openSync, closeSync } from 'node:fs';
+import { readFileSync, statSync, writeFileSync, openSync, closeSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { certificateFacts } from '../../src-main/services/signing/certificate-facts.js';
 import { keyIterations } from '../../src-main/services/signing/encrypted-pkcs8.js';
 import { writeOwnerOnly } from '../../src-main/services/signing/key-file.js';
@@ -27,6 +27,8 @@ beforeAll(async () => {
   personal = await createPersonalIdentity({ name: 'Rui Tanaka', organization: 'Invented Gasket Plant' });
   keyText = await personalKeyFileText(personal, passphrase);
 });
+
+afterAll(() => rmSync(folder, { recursive: true, force: true }));
 
 describe('PKCS#12 files as companies issue them', () => {
   it('reads the RSA key and certificate; the fingerprint matches OpenSSL’s SHA-256 fingerprint', () => {
