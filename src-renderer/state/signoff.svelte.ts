@@ -118,7 +118,7 @@ class SignOff {
       this.lastExport = { fileName: result.file.fileName, url: result.downloadUrl };
       // On the web host the packet arrives as a download; on the desktop it is already where the user chose.
       if (result.downloadUrl) saveDownload(result.file.fileName, result.downloadUrl);
-      this.message = `The ${format === 'pdf' ? 'signed PDF packet' : 'workbook'} ${result.file.fileName} is ready.`;
+      this.message = `The ${format === 'pdf' ? 'PDF packet' : 'workbook'} ${result.file.fileName} is ready.`;
     });
   }
 

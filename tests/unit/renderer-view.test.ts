@@ -11,6 +11,7 @@ import { paretoOfCategories } from '../../shared-core/view/pareto.js';
 import { allRuleIds, ruleInWords, ruleName } from '../../shared-core/view/rules-in-words.js';
 import { formatNumber, formatDate } from '../../shared-core/view/number-format.js';
 import { warningGuide } from '../../shared-core/view/warning-guide.js';
+import { thinForDisplay } from '../../shared-core/view/thin-for-display.js';
 
 // Invented periods for display checks (not a published example): k varies, so the limits step.
 const varying: Observation[] = [2, 6, 5, 2, 6, 5, 4, 6].map((units, i) => ({
@@ -179,5 +180,36 @@ describe('words', () => {
     expect(formatNumber(0.78298, 'en-US')).toBe('0.783');
     expect(formatDate('2026-03-05', 'en-US')).toBe('Mar 5, 2026');
     expect(formatDate('not a date')).toBe('not a date');
+  });
+});
+
+describe('thinForDisplay', () => {
+  // Invented series (not a published example), checked against a direct per-column scan.
+  const points = Array.from({ length: 2000 }, (_, i) => ({ x: i + 1, y: Math.sin(i / 7) * 10 + (i % 13) }));
+
+  it('keeps every point when there are few enough', () => {
+    expect(thinForDisplay(points.slice(0, 40), { from: 0.5, to: 40.5 }, 10)).toHaveLength(40);
+  });
+
+  it('keeps each pixel column’s first, lowest, highest and last point, in order', () => {
+    const thinned = thinForDisplay(points, { from: 0.5, to: 2000.5 }, 100);
+    expect(thinned.length).toBeLessThanOrEqual(400);
+    expect(thinned.map((p) => p.x)).toEqual([...thinned.map((p) => p.x)].sort((a, b) => a - b));
+    for (let column = 0; column < 100; column++) {
+      const inColumn = points.filter((p) => Math.floor(((p.x - 0.5) / 2000) * 100) === column);
+      const kept = thinned.filter((p) => Math.floor(((p.x - 0.5) / 2000) * 100) === column);
+      expect(Math.max(...kept.map((p) => p.y))).toBe(Math.max(...inColumn.map((p) => p.y)));
+      expect(Math.min(...kept.map((p) => p.y))).toBe(Math.min(...inColumn.map((p) => p.y)));
+      expect(kept[0]).toBe(inColumn[0]);
+      expect(kept.at(-1)).toBe(inColumn.at(-1));
+    }
+  });
+
+  it('never drops a break in a line (a period with no LCL)', () => {
+    const line = Array.from({ length: 3000 }, (_, i) => ({ x: i / 2, y: i === 1500 ? null : i % 7 }));
+    const thinned = thinForDisplay(line, { from: 0, to: 1500 }, 50);
+    const gap = thinned.findIndex((v) => v.y === null);
+    expect(thinned[gap - 1]).toBe(line[1499]);
+    expect(thinned[gap + 1]).toBe(line[1501]);
   });
 });
