@@ -172,6 +172,11 @@ describe('importFile: limits and errors', () => {
     });
   });
 
+  it('names a folder given as a file instead of throwing', async () => {
+    const result = await importFile(dir, mapping);
+    expect(result).toMatchObject({ ok: false, findings: [{ message: expect.stringContaining('EISDIR') }] });
+  });
+
   it('stops when cancelled', async () => {
     const controller = new AbortController();
     controller.abort();

@@ -194,7 +194,26 @@ export async function importBytes(
 ): Promise<Result<ImportOutcome>> {
   const upload = request.events?.unitsUpload;
   const readUnits = upload ? async () => ok({ file: upload.fileName, bytes: upload.bytes }) : undefined;
-  return importDecoded(fileName, bytes, request, readUnits, signal, options);
+  return guarded(fileName, () => importDecoded(fileName, bytes, request, readUnits, signal, options));
+}
+
+/** Reading that fails in a way no check foresaw (a folder named as a file, a disk error). */
+export const unexpectedFailure = 'could not be imported because of an unexpected error';
+
+/** Every failure comes back as a finding that names the file; the importer never throws. */
+async function guarded(
+  file: string,
+  work: () => Promise<Result<ImportOutcome>>,
+): Promise<Result<ImportOutcome>> {
+  try {
+    return await work();
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    return fail({
+      file,
+      message: `${unexpectedFailure} (${code ?? (error as Error).message ?? String(error)})`,
+    });
+  }
 }
 
 /** The bytes of a file, refused before reading when it is over the size limit. */
@@ -251,11 +270,13 @@ export async function importFile(
   options: ImportOptions = {},
 ): Promise<Result<ImportOutcome>> {
   const limits = { ...importLimits, ...options.limits };
-  const read = await readLimited(path, limits, signal, options);
-  if (!read.ok) return read;
-  const unitsFile = request.events?.unitsFile;
-  const readUnits = unitsFile ? () => readLimited(unitsFile, limits, signal, options) : undefined;
-  return importDecoded(read.value.file, read.value.bytes, request, readUnits, signal, options);
+  return guarded(basename(path), async () => {
+    const read = await readLimited(path, limits, signal, options);
+    if (!read.ok) return read;
+    const unitsFile = request.events?.unitsFile;
+    const readUnits = unitsFile ? () => readLimited(unitsFile, limits, signal, options) : undefined;
+    return importDecoded(read.value.file, read.value.bytes, request, readUnits, signal, options);
+  });
 }
 
 /**
@@ -278,18 +299,20 @@ export async function importPastedText(
       message: `are ${megabytes(bytes.byteLength)}; more than ${megabytes(limits.maxFileBytes)} is refused`,
     });
   }
-  const table = delimitedTable(
-    text,
-    file,
-    {
-      format: 'paste',
+  return guarded(file, async () => {
+    const source = {
       sha256: sha256(bytes),
       bytes: bytes.byteLength,
       encoding: 'utf-8',
-      encodingSource: 'given',
-    },
-    { delimiter: request.delimiter ?? '\t', headerNames: mainColumns(request), limits },
-  );
-  if (!table.ok) return table;
-  return outcomeFromTable(table.value, request, undefined);
+      encodingSource: 'given' as const,
+    };
+    const table = delimitedTable(
+      text,
+      file,
+      { format: 'paste', ...source },
+      { delimiter: request.delimiter ?? '\t', headerNames: mainColumns(request), limits },
+    );
+    if (!table.ok) return table;
+    return outcomeFromTable(table.value, request, undefined);
+  });
 }
