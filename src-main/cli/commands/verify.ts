@@ -71,6 +71,14 @@ export async function run(argv: string[]): Promise<number> {
   }
   const verdict = await verifyPacket({ pdf, ...(workbook ? { workbook } : {}), trusted });
   const out = verdict.lines.map((line) => `${line.ok ? '  ok ' : '  NO '} ${line.text}`);
+  if (
+    trusted.length === 0 &&
+    verdict.lines.some((line) => /not in the trusted list|not trusted/.test(line.text))
+  ) {
+    out.push(
+      '  (name the certificates you trust with --trust CERT to check who signed, not only that nothing changed)',
+    );
+  }
   out.push(
     verdict.ok
       ? `VERIFIED: ${positionals[0]} holds.`
