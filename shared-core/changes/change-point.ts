@@ -1,4 +1,5 @@
 import { fail, ok, type Result } from '../result.js';
+import { binomialPmf } from '../stats/binomial.js';
 import { generatorName, seededRandom, type Random } from '../stats/random.js';
 
 /** One included period, in period order. */
@@ -86,7 +87,7 @@ function xLogRate(count: number, units: number): number {
  *
  * The p-value is by Monte Carlo conditional on the total: under a constant rate, the total X is
  * spread over the periods as Multinomial(X; kᵢ/K), whatever the rate. Each replication draws that
- * allocation (Walker's alias method, one uniform per nonconformity) and takes its largest G; the
+ * allocation (see `allocation`) and takes its largest G; the
  * p-value is (1 + b)/(1 + R), b the replications at least as large (within 1e-9, so ties of
  * discrete data count). The generator, seed and R are returned so that the result reproduces.
  * Sources: Worsley (1986) for G; A. C. A. Hope, "A simplified Monte Carlo significance test
@@ -128,12 +129,11 @@ export function changePoint(
   if (total === 0) exceedances = replications;
   else {
     const random = seededRandom(seed);
-    const draw = aliasTable(units);
+    const allocate = allocation(units, total);
     const simulated = new Float64Array(periods.length);
     const threshold = statistic - 1e-9 * Math.max(1, statistic);
     for (let r = 0; r < replications; r++) {
-      simulated.fill(0);
-      for (let n = 0; n < total; n++) simulated[draw(random)]++;
+      allocate(random, simulated);
       if (largest(changeProfile(simulated, units)) >= threshold) exceedances++;
     }
   }
@@ -168,6 +168,76 @@ function largest(values: readonly number[]): number {
   let best = 0;
   for (const v of values) if (v > best) best = v;
   return best;
+}
+
+/** Above this many nonconformities per period, conditional binomials are cheaper than one draw each. */
+const BINOMIAL_ALLOCATION_ABOVE = 20;
+
+/**
+ * One draw of Multinomial(total; kᵢ/K) into `cells`: one alias draw per nonconformity for small
+ * totals, else conditional binomials xᵢ ~ Binomial(n − x₁ − … − xᵢ₋₁, kᵢ/(kᵢ + … + k_m)), whose
+ * cost grows with √total rather than total. Both are exact; the choice depends only on the data,
+ * so a seed reproduces the same draws.
+ */
+export function allocation(
+  units: readonly number[],
+  total: number,
+): (random: Random, cells: Float64Array) => void {
+  if (total <= BINOMIAL_ALLOCATION_ABOVE * units.length) {
+    const draw = aliasTable(units);
+    return (random, cells) => {
+      cells.fill(0);
+      for (let n = 0; n < total; n++) cells[draw(random)]++;
+    };
+  }
+  const remainingUnits = new Float64Array(units.length);
+  for (let i = units.length - 1, sum = 0; i >= 0; i--) remainingUnits[i] = sum += units[i];
+  return (random, cells) => {
+    let left = total;
+    for (let i = 0; i < units.length - 1; i++) {
+      const x = left === 0 ? 0 : binomialDraw(random, left, Math.min(1, units[i] / remainingUnits[i]));
+      cells[i] = x;
+      left -= x;
+    }
+    cells[units.length - 1] = left;
+  };
+}
+
+/**
+ * A Binomial(n, p) draw by inversion, searching outward from the mode (down, up, down, …) with
+ * the probability ratios P(k − 1)/P(k) = k·q/((n − k + 1)·p) and P(k + 1)/P(k) = (n − k)·p/((k + 1)·q):
+ * about 1.6 standard deviations of steps, exact up to rounding.
+ * Source: L. Devroye, Non-Uniform Random Variate Generation (1986), ch. X (inversion by
+ * sequential search from the mode).
+ */
+export function binomialDraw(random: Random, n: number, p: number): number {
+  if (n === 0 || p <= 0) return 0;
+  if (p >= 1) return n;
+  const mode = Math.min(n, Math.floor((n + 1) * p));
+  const odds = p / (1 - p);
+  let u = random.nextUniform();
+  let low = mode;
+  let high = mode;
+  let lowMass = binomialPmf(mode, n, p);
+  let highMass = lowMass;
+  u -= lowMass;
+  if (u < 0) return mode;
+  for (;;) {
+    if (low > 0) {
+      lowMass *= low / ((n - low + 1) * odds);
+      low--;
+      u -= lowMass;
+      if (u < 0) return low;
+    }
+    if (high < n) {
+      highMass *= ((n - high) / (high + 1)) * odds;
+      high++;
+      u -= highMass;
+      if (u < 0) return high;
+    }
+    // What is left is rounding (about 1e-15): no count carries it.
+    if ((low === 0 || lowMass === 0) && (high === n || highMass === 0)) return mode;
+  }
 }
 
 /**

@@ -1,6 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import poissonPmf from '@stdlib/stats-base-dists-poisson-pmf';
-import { aliasTable, changePoint, changeProfile } from '../../shared-core/changes/change-point.js';
+import binomialPmf from '@stdlib/stats-base-dists-binomial-pmf';
+import {
+  aliasTable,
+  allocation,
+  binomialDraw,
+  changePoint,
+  changeProfile,
+} from '../../shared-core/changes/change-point.js';
+import chisquareCdf from '@stdlib/stats-base-dists-chisquare-cdf';
 import { seededRandom, type Random } from '../../shared-core/stats/random.js';
 
 /** Poisson draws by inversion of the cdf (test-only sampler). */
@@ -118,6 +126,83 @@ describe('change-point check for one step in a Poisson rate', () => {
     }, 0);
     // χ²(4) 0.999 quantile is 18.47 (common tables).
     expect(statistic).toBeLessThan(18.47);
+  });
+
+  it.each([
+    [50, 0.3],
+    [2000, 0.01],
+    [12, 0.95],
+    [400, 0.5],
+  ])('draws Binomial(%d, %d) with the probabilities of @stdlib’s pmf (chi-square, 40,000 draws)', (n, p) => {
+    const random = seededRandom(n);
+    const draws = 40_000;
+    const tally = new Map<number, number>();
+    for (let i = 0; i < draws; i++) {
+      const x = binomialDraw(random, n, p);
+      tally.set(x, (tally.get(x) ?? 0) + 1);
+    }
+    // Cells with an expected count of at least 5, the rest pooled (common practice).
+    let statistic = 0;
+    let cells = 0;
+    let pooledObserved = 0;
+    let pooledExpected = 0;
+    for (let x = 0; x <= n; x++) {
+      const expected = draws * binomialPmf(x, n, p);
+      const observed = tally.get(x) ?? 0;
+      if (expected >= 5) {
+        statistic += (observed - expected) ** 2 / expected;
+        cells++;
+      } else {
+        pooledObserved += observed;
+        pooledExpected += expected;
+      }
+    }
+    if (pooledExpected > 0) {
+      statistic += (pooledObserved - pooledExpected) ** 2 / pooledExpected;
+      cells++;
+    }
+    expect(1 - chisquareCdf(statistic, cells - 1)).toBeGreaterThan(0.001);
+  });
+
+  it('allocates a large total by conditional binomials: every draw sums to the total, means in proportion to k', () => {
+    const k = [1, 2, 3, 4];
+    const allocate = allocation(k, 5000);
+    const random = seededRandom(8);
+    const cells = new Float64Array(4);
+    const sums = [0, 0, 0, 0];
+    for (let r = 0; r < 2000; r++) {
+      allocate(random, cells);
+      expect(cells.reduce((a, b) => a + b, 0)).toBe(5000);
+      cells.forEach((x, i) => (sums[i] += x));
+    }
+    // Mean of 2000 draws of Binomial(5000, kᵢ/10): within 4 standard errors of 500·kᵢ.
+    sums.forEach((sum, i) => {
+      const p = k[i] / 10;
+      expect(Math.abs(sum / 2000 - 5000 * p)).toBeLessThan(4 * Math.sqrt((5000 * p * (1 - p)) / 2000));
+    });
+  });
+
+  it('gives the same p-value by conditional binomials as by one alias draw per nonconformity (large total)', () => {
+    const k = Array.from({ length: 12 }, (_, i) => 3 + (i % 4));
+    const counts = k.map((units, i) => Math.round(units * (i < 7 ? 40 : 43)));
+    const total = counts.reduce((a, b) => a + b, 0);
+    const result = changePoint(
+      counts.map((count, i) => ({ count, units: k[i] })),
+      { replications: 3000, seed: 4 },
+    );
+    if (!result.ok) throw new Error('no result');
+    const draw = aliasTable(k);
+    const random = seededRandom(99);
+    let hits = 0;
+    const cells = new Float64Array(k.length);
+    for (let r = 0; r < 3000; r++) {
+      cells.fill(0);
+      for (let n = 0; n < total; n++) cells[draw(random)]++;
+      if (Math.max(...changeProfile(cells, k)) >= result.value.statistic - 1e-9) hits++;
+    }
+    const alias = hits / 3000;
+    const se = Math.sqrt((2 * alias * (1 - alias)) / 3000) + 1e-3;
+    expect(Math.abs(result.value.exceedances / 3000 - alias)).toBeLessThan(4 * se);
   });
 
   // Size and power by simulation, seed fixed. Under a constant rate the Monte Carlo test is exact
