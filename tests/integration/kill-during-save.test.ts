@@ -1,4 +1,4 @@
-import { spawn } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
@@ -67,6 +67,19 @@ function killAtRandom(path: string): Promise<{ confirmed: number }> {
   });
 }
 
+/** Copies the build, retrying while a rebuild running meanwhile leaves it unloadable. */
+function copyBuild(): void {
+  for (let attempt = 1; ; attempt++) {
+    rmSync(dist, { recursive: true, force: true });
+    for (const part of ['shared-core', 'src-main'])
+      cpSync(join(built, part), join(dist, part), { recursive: true });
+    const probe = spawnSync(process.execPath, [child, '--probe', dist], { encoding: 'utf8' });
+    if (probe.status === 0) return;
+    if (attempt === 5) throw new Error(`the build in dist/ does not load: ${probe.stderr}`);
+    spawnSync(process.execPath, ['-e', 'setTimeout(() => {}, 2000)']);
+  }
+}
+
 describe(`a save killed at a random moment (${kills} times)`, () => {
   it(
     'leaves the old or the new version, and a whole backup',
@@ -75,8 +88,7 @@ describe(`a save killed at a random moment (${kills} times)`, () => {
         existsSync(join(built, 'src-main', 'services', 'study-file.js')),
         'run `npm run build` first',
       ).toBe(true);
-      for (const part of ['shared-core', 'src-main'])
-        cpSync(join(built, part), join(dist, part), { recursive: true });
+      copyBuild();
       const tally = { kills: 0, old: 0, new: 0, backupOneOlder: 0, backupSame: 0, leftoverTemporaries: 0 };
       // Four lanes in parallel, each its own folder and study, to keep `npm test` short.
       const lanes = 4;
