@@ -294,6 +294,7 @@ export function averageRunLengthOfChain(chain: RunLengthChain, probabilities: re
 
 /** Gaussian elimination with partial pivoting on a dense n×n system (row-major); overwrites a, b. */
 function solveDense(a: Float64Array, b: Float64Array, n: number): Float64Array {
+  const columns = new Int32Array(n);
   for (let col = 0; col < n; col++) {
     let pivot = col;
     let best = Math.abs(a[col * n + col]);
@@ -319,10 +320,17 @@ function solveDense(a: Float64Array, b: Float64Array, n: number): Float64Array {
       b[pivot] = t;
     }
     const diagonal = a[col * n + col];
+    // The chain's rows are sparse and stay fairly sparse: update only the pivot row's nonzeros.
+    let nonzeros = 0;
+    for (let c = col + 1; c < n; c++) if (a[col * n + c] !== 0) columns[nonzeros++] = c;
     for (let r = col + 1; r < n; r++) {
       const factor = a[r * n + col] / diagonal;
       if (factor === 0) continue;
-      for (let c = col; c < n; c++) a[r * n + c] -= factor * a[col * n + c];
+      a[r * n + col] = 0;
+      for (let j = 0; j < nonzeros; j++) {
+        const c = columns[j];
+        a[r * n + c] -= factor * a[col * n + c];
+      }
       b[r] -= factor * b[col];
     }
   }
