@@ -12,7 +12,7 @@ import { verifyStudy } from '../../shared-core/study/verify-study.js';
 import type { Study } from '../../shared-core/study/study-schema.js';
 import type { Revision } from '../../shared-core/study/revision-schema.js';
 import type { Result } from '../../shared-core/result.js';
-import { at, sampleStudy } from '../integration/fixtures/study-sample.js';
+import { at, fullStudy, sampleStudy } from '../integration/fixtures/study-sample.js';
 
 const value = <T>(result: Result<T>): T => {
   if (!result.ok) throw new Error(result.findings.map((finding) => finding.message).join('; '));
@@ -110,6 +110,19 @@ describe('tampering with a study is detected', () => {
     truncated.events.length = 8;
     truncated.header = sealHeader(truncated);
     expect(errors(truncated)).toEqual(['anchor-missing@null']);
+  });
+
+  it('a signed study truncated before its sign-off, header rewritten, names the signed revision', () => {
+    const signed = fullStudy();
+    expect(verifyStudy(signed)).toEqual([]);
+    const anchor = signed.events.findIndex((event) => event.hash === signed.revisions[0].chainHead);
+    const truncated = clone(signed);
+    truncated.events.length = anchor;
+    truncated.header = sealHeader(truncated);
+    const problems = verifyStudy(truncated).filter((problem) => problem.code === 'anchor-missing');
+    expect(problems.map((problem) => problem.message)).toEqual([
+      expect.stringMatching(/^revision 1 with 1 sign-off\(s\) is anchored/),
+    ]);
   });
 
   it('a chain moved to another study is not bound to its id', () => {
