@@ -3,7 +3,7 @@ import { createHash } from 'node:crypto';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { importFile, importPastedText } from '../../src-main/services/import/import-file.js';
+import { importFile, importPastedText, previewBytes } from '../../src-main/services/import/import-file.js';
 import type { ImportRequest } from '../../src-main/services/import/import-request.js';
 import { describeFinding } from '../../shared-core/result.js';
 
@@ -182,6 +182,25 @@ describe('importFile: limits and errors', () => {
     controller.abort();
     const result = await importFile(await write('cancel.csv', csv), mapping, controller.signal);
     expect(result).toMatchObject({ ok: false, findings: [{ message: 'the import was cancelled' }] });
+  });
+});
+
+describe('previewBytes', () => {
+  it('shows the decoded first rows and suggests a mapping before anything is validated', async () => {
+    const bytes = new TextEncoder().encode('Lot;Defects;Boards\nA;3;50\nB;x;48\n');
+    const result = await previewBytes('p.csv', bytes);
+    expect(result).toMatchObject({
+      ok: true,
+      value: {
+        headerRow: 1,
+        header: ['Lot', 'Defects', 'Boards'],
+        rows: [
+          { row: 2, cells: ['A', '3', '50'] },
+          { row: 3, cells: ['B', 'x', '48'] },
+        ],
+        suggested: { count: 'Defects', units: 'Boards', label: 'Lot' },
+      },
+    });
   });
 });
 

@@ -2,6 +2,7 @@ import { parseArgs } from 'node:util';
 import { describe, expect, it } from 'vitest';
 import { importFlags, importRequestFromFlags } from '../../src-main/cli/import-flags.js';
 import { suggestMapping } from '../../shared-core/import/column-mapping.js';
+import { tablePreview } from '../../shared-core/import/table-preview.js';
 
 const parse = (...args: string[]) =>
   importRequestFromFlags(parseArgs({ args, options: importFlags, allowPositionals: true }).values);
@@ -111,5 +112,36 @@ describe('suggestMapping', () => {
       label: 'Lot',
     });
     expect(suggestMapping(['x', 'y'])).toEqual({});
+  });
+});
+
+describe('tablePreview', () => {
+  it('shows the first rows as text under their spreadsheet rows, with a suggested mapping', () => {
+    const preview = tablePreview(
+      {
+        file: 'log.xlsx',
+        sheet: 'Data',
+        headerRow: 3,
+        header: ['Lot', 'Date', 'Defects'],
+        rows: [
+          { row: 4, cells: ['A-1', new Date(Date.UTC(2026, 2, 2)), 3] },
+          { row: 5, cells: ['A-2', new Date(Date.UTC(2026, 2, 3, 6, 30)), null] },
+          { row: 6, cells: ['A-3'] },
+        ],
+      },
+      2,
+    );
+    expect(preview).toEqual({
+      file: 'log.xlsx',
+      sheet: 'Data',
+      headerRow: 3,
+      header: ['Lot', 'Date', 'Defects'],
+      rows: [
+        { row: 4, cells: ['A-1', '2026-03-02', '3'] },
+        { row: 5, cells: ['A-2', '2026-03-03 06:30:00', ''] },
+      ],
+      totalRows: 3,
+      suggested: { count: 'Defects', date: 'Date', label: 'Lot' },
+    });
   });
 });

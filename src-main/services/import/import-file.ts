@@ -4,6 +4,7 @@ import { basename } from 'node:path';
 import type { DecodedTable } from '../../../shared-core/import/decoded-table.js';
 import { readEventPeriods, type UnitsTable } from '../../../shared-core/import/event-periods.js';
 import type { ImportOutcome } from '../../../shared-core/import/import-report.js';
+import { tablePreview, type TablePreview } from '../../../shared-core/import/table-preview.js';
 import { readObservations } from '../../../shared-core/import/read-observations.js';
 import type { Result } from '../../../shared-core/result.js';
 import { fail, ok } from '../../../shared-core/result.js';
@@ -195,6 +196,34 @@ export async function importBytes(
   const upload = request.events?.unitsUpload;
   const readUnits = upload ? async () => ok({ file: upload.fileName, bytes: upload.bytes }) : undefined;
   return guarded(fileName, () => importDecoded(fileName, bytes, request, readUnits, signal, options));
+}
+
+/**
+ * The first rows of a file and a suggested mapping, for the mapping screen: the same decoding as
+ * an import (encoding, delimiter, sheet and header detection), no validation yet.
+ */
+export async function previewBytes(
+  fileName: string,
+  bytes: Uint8Array,
+  request: Partial<ImportRequest> = {},
+  options: ImportOptions = {},
+): Promise<Result<TablePreview>> {
+  const limits = { ...importLimits, ...options.limits };
+  const { sheet, encoding, delimiter } = request;
+  const columns = named([request.count, request.units, request.label, request.date]);
+  try {
+    const table = await decodeTable(
+      fileName,
+      bytes,
+      { sheet, encoding, delimiter, columns },
+      limits,
+      undefined,
+      options,
+    );
+    return table.ok ? ok(tablePreview(table.value)) : table;
+  } catch (error) {
+    return fail({ file: fileName, message: `${unexpectedFailure} (${(error as Error).message})` });
+  }
 }
 
 /** Reading that fails in a way no check foresaw (a folder named as a file, a disk error). */
