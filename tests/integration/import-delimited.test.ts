@@ -131,6 +131,17 @@ describe('importFile: delimiters, quotes and decimal marks', () => {
     expect(outcome.report.warnings).toContainEqual(expect.objectContaining({ code: 'above-header' }));
   });
 
+  it('takes the delimiter from a "sep=" first line and numbers rows after it, as spreadsheets do', async () => {
+    const outcome = await imported(
+      await write('sep.csv', 'sep=;\r\nlot;defects;boards\r\nA;1,5;10\r\n'),
+      mapping,
+    );
+    expect(outcome.report.settings).toMatchObject({ delimiter: ';', headerRow: 1 });
+    expect(outcome.rejected).toEqual([
+      { row: 2, column: 'defects', value: '1,5', message: 'is not a whole number of nonconformities' },
+    ]);
+  });
+
   it('takes a named delimiter over the detected one', async () => {
     const path = await write('named.txt', 'lot;defects;boards\nA;1;10\n');
     const outcome = await imported(path, { ...mapping, delimiter: ';' });

@@ -70,7 +70,11 @@ export function delimitedTable(
   options: DelimitedOptions = {},
 ): Result<DecodedTable> {
   const maxRows = options.limits?.maxRows ?? importLimits.maxRows;
-  const delimiter = options.delimiter ?? detectDelimiter(text);
+  // A first line "sep=;" names the delimiter; spreadsheet programs hide it and number the rows
+  // after it from 1, so it is taken off before numbering.
+  const sepLine = /^sep=([,;\t|])\r?\n/.exec(text);
+  if (sepLine) text = text.slice(sepLine[0].length);
+  const delimiter = options.delimiter ?? sepLine?.[1] ?? detectDelimiter(text);
   const parsed = parse(text, delimiter);
   const records = parsed.data;
   while (records.length > 0 && isBlankRecord(records[records.length - 1])) records.pop();
