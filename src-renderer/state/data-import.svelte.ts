@@ -5,6 +5,7 @@ import type { Finding } from '../../shared-core/result.js';
 import { describeFinding } from '../../shared-core/result.js';
 import { study } from './study.svelte.js';
 import { navigation } from './navigation.svelte.js';
+import { studyFile } from './study-file.svelte.js';
 
 interface ChangedCell {
   row: number;
@@ -211,6 +212,7 @@ class DataImport {
             importSettings: mapping,
             importReport: report,
           });
+          studyFile.opened(null);
           this.imported = true;
         }
       }

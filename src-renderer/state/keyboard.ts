@@ -1,6 +1,7 @@
 import { navigation, screens } from './navigation.svelte.js';
 import { study } from './study.svelte.js';
 import { review } from './review.svelte.js';
+import { studyFile } from './study-file.svelte.js';
 
 function typingInField(target: EventTarget | null): boolean {
   if (!(target instanceof HTMLElement)) return false;
@@ -19,6 +20,11 @@ export function handleGlobalKey(event: KeyboardEvent): void {
     return;
   }
   const command = event.ctrlKey || event.metaKey;
+  if (command && event.key.toLowerCase() === 's') {
+    void studyFile.save(event.shiftKey);
+    event.preventDefault();
+    return;
+  }
   if (command && !typingInField(event.target)) {
     const key = event.key.toLowerCase();
     if (key === 'z' && !event.shiftKey) study.undo();

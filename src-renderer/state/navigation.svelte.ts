@@ -22,6 +22,7 @@ export const navigation = new Navigation();
 /** The keyboard shortcuts, as listed in the app. */
 export const shortcuts: { keys: string; does: string }[] = [
   { keys: 'Alt+1 … Alt+5', does: 'Go to Data, Review, Checks, Sign-off, History' },
+  { keys: 'Ctrl+S / Ctrl+Shift+S', does: 'Save the study / save it under a new name' },
   { keys: 'Ctrl+Z', does: 'Undo the last decision' },
   { keys: 'Ctrl+Shift+Z or Ctrl+Y', does: 'Redo' },
   { keys: '← → (on the chart or table)', does: 'Select the previous or next period' },

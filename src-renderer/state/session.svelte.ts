@@ -2,6 +2,7 @@ import { api, ApiError, hostKind } from '../transport/index.js';
 import { defaultSiteSettings, type SiteSettings } from '../../shared-core/settings/site-settings.js';
 import { study } from './study.svelte.js';
 import { review } from './review.svelte.js';
+import { studyFile } from './study-file.svelte.js';
 
 /** How the app reached its host and what it opened first. */
 class Session {
@@ -19,6 +20,7 @@ class Session {
       review.causeCategories = [...settings.causeCategories];
       const demo = await api.demoStudy({});
       study.loadView(demo, true);
+      studyFile.opened(null);
       this.status = 'ready';
     } catch (error) {
       this.status = 'failed';

@@ -122,6 +122,9 @@ describe.skipIf(!hasChromium || !hasServe)('a baseline study by hand, against li
       await page.locator('[data-testid="redo"]').click();
       await expect.poll(() => summary(page)).toContain('1 excluded');
 
+      await page.locator('[data-testid="save-study"]').click();
+      await expect.poll(() => page.locator('.file-message').innerText()).toMatch(/^Saved .*\.ledger/);
+
       await page.locator('[data-testid="nav-checks"]').click();
       await page.locator('[data-testid="checks-dispersion"]').waitFor();
       await auditScreen(page, 'checks');
