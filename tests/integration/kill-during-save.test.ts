@@ -133,4 +133,5 @@ async function runLane(lane: number, trials: number, tally: Record<string, numbe
     expect(temporaries, `kill ${i}`).toBeLessThanOrEqual(2);
     tally.leftoverTemporaries += temporaries;
   }
+  rmSync(folder, { recursive: true, force: true });
 }

@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -37,6 +37,7 @@ describe('study commands (built CLI)', () => {
     expect(cli('demo', '--out', out, '--force').status).toBe(0);
     expect(readFileSync(`${out}.bak`, 'utf8')).toMatch(/"demo": true/);
     expect(cli('demo').status).toBe(2);
+    rmSync(folder, { recursive: true, force: true });
   });
 
   it('limit-ledger analyze --save records the import, each exclusion with its cause, and the iterations', async () => {
@@ -91,5 +92,6 @@ describe('study commands (built CLI)', () => {
     const refused = cli('analyze', data, '--count', 'blemishes', '--units', 'panels', '--save', study);
     expect(refused.status).toBe(2);
     expect(refused.stderr).toMatch(/already exists/);
+    rmSync(folder, { recursive: true, force: true });
   });
 });

@@ -4,13 +4,14 @@ import {
   mkdtempSync,
   readFileSync,
   readdirSync,
+  rmSync,
   statSync,
   writeFileSync,
 } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
-import { beforeEach, describe, expect, it } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { openStudyFile, saveStudyCopy, saveStudyFile } from '../../src-main/services/study-file.js';
 import { exclude } from '../../shared-core/study/study-state.js';
 import { formatStudy } from '../../shared-core/study/study-text.js';
@@ -26,6 +27,7 @@ let folder: string;
 beforeEach(() => {
   folder = mkdtempSync(join(tmpdir(), 'll-study-file-'));
 });
+afterEach(() => rmSync(folder, { recursive: true, force: true }));
 
 describe('study files', () => {
   it('save, open, save gives identical bytes, and every field survives', async () => {
