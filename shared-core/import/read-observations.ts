@@ -38,7 +38,15 @@ export function readCount(cell: Cell, decimal: DecimalMark): CellReading {
   if ('rejection' in reading) return reading;
   if (!Number.isFinite(reading.value)) return { rejection: 'is not a finite number' };
   if (reading.value < 0) return { rejection: 'is negative; a count of nonconformities is 0 or more' };
-  if (!Number.isInteger(reading.value)) return { rejection: 'is not a whole number of nonconformities' };
+  if (!Number.isInteger(reading.value)) {
+    // A workbook formula such as =A2*0.1*10 stores 2.9999999999999996 for 3: binary rounding, not a
+    // fraction anyone counted. Such a cell is read as the whole number and listed as changed.
+    const whole = Math.round(reading.value);
+    if (typeof cell === 'number' && Math.abs(reading.value - whole) <= 1e-9 * Math.max(1, whole)) {
+      return { value: whole, changed: String(whole) };
+    }
+    return { rejection: 'is not a whole number of nonconformities' };
+  }
   return reading;
 }
 

@@ -302,4 +302,20 @@ describe('readObservations', () => {
     expect(outcome.observations[0].date).toBe(day(1));
     expect(outcome.report.accepted).toBe(150_000);
   });
+
+  it('reads a workbook count off by binary rounding as the whole number, listing the change', () => {
+    // 0.1 + 0.2 is 0.30000000000000004 in IEEE 754 doubles (a fact of floating point), so 3 computed
+    // by a formula as (0.1 + 0.2) * 10 arrives as 3.0000000000000004.
+    const almostThree = (0.1 + 0.2) * 10;
+    expect(almostThree).not.toBe(3);
+    const outcome = read(table(['count'], [[almostThree], [2.5], ['3.0000000000000004']]), {
+      count: 'count',
+    });
+    expect(outcome.observations).toEqual([{ label: '#2', row: 2, count: 3, units: 1 }]);
+    expect(outcome.report.changedCells).toEqual([
+      { row: 2, column: 'count', from: String(almostThree), to: '3' },
+    ]);
+    // Text is taken as written: a typed fraction is never rounded away.
+    expect(outcome.rejected.map((r) => r.row)).toEqual([3, 4]);
+  });
 });
