@@ -75,6 +75,7 @@ export class StudyState {
   readonly exclusions = $derived(this.state?.exclusions ?? []);
   readonly options: AnalysisOptions = $derived(this.state?.method ?? defaultOptions);
   readonly audit: AuditEvent[] = $derived(this.document?.events ?? []);
+  readonly notes = $derived(this.state?.notes ?? []);
   readonly canUndo = $derived(!this.readOnly && this.state?.undoable != null);
   readonly canRedo = $derived(!this.readOnly && this.state?.redoable != null);
 
@@ -190,6 +191,10 @@ export class StudyState {
   setOptions(change: Partial<AnalysisOptions>): boolean {
     const method = withoutUndefined({ ...this.options, ...change });
     return this.#apply((doc) => decisions.changeMethod(doc, { who: this.user, method }, now()));
+  }
+
+  addNote(index: number, text: string): boolean {
+    return this.#apply((doc) => decisions.addNote(doc, { who: this.user, index, text }, now()));
   }
 
   undo(): boolean {

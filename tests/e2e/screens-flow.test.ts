@@ -122,6 +122,11 @@ describe.skipIf(!hasChromium || !hasServe)('a baseline study by hand, against li
       await page.locator('[data-testid="redo"]').click();
       await expect.poll(() => summary(page)).toContain('1 excluded');
 
+      await page.locator('[data-testid="period-row"]', { hasText: 'S15' }).click();
+      await page.locator('[data-testid="note-text"]').fill('new supplier lot from here');
+      await page.getByRole('button', { name: 'Add note' }).click();
+      await expect.poll(() => page.locator('.details').innerText()).toContain('Note by');
+
       await page.locator('[data-testid="save-study"]').click();
       await expect.poll(() => page.locator('.file-message').innerText()).toMatch(/^Saved .*\.ledger/);
 
@@ -134,6 +139,7 @@ describe.skipIf(!hasChromium || !hasServe)('a baseline study by hand, against li
       expect(trail).toContain('Excluded');
       expect(trail).toContain('CA-0042');
       expect(trail).toContain('Undo');
+      expect(trail).toContain('S15: new supplier lot from here');
       await page.locator('[data-testid="history-search"]').fill('resin');
       await expect.poll(() => page.locator('[data-testid="audit-trail"] tbody tr').count()).toBe(1);
       await auditScreen(page, 'history');

@@ -81,6 +81,15 @@ describe('StudyState', () => {
     expect(state.result?.periods[3].status).toBe('in');
   });
 
+  it('records notes on periods in the audit chain, and undoes them like any decision', () => {
+    const state = opened();
+    expect(state.addNote(5, 'new supplier lot from here')).toBe(true);
+    expect(state.notes).toMatchObject([{ index: 5, label: 'L6', text: 'new supplier lot from here' }]);
+    expect(state.addNote(5, '   ')).toBe(false);
+    state.undo();
+    expect(state.notes).toEqual([]);
+  });
+
   it('charts one category at a time when categories exist', () => {
     const state = new StudyState();
     state.load(
