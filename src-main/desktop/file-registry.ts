@@ -24,6 +24,9 @@ export interface FileEntry {
 export class FileRegistry {
   private readonly entries = new Map<string, FileEntry>();
 
+  /** Uploads held in memory at once; the oldest is forgotten beyond this (its handle then asks again). */
+  constructor(private readonly maxUploads = 16) {}
+
   /** Registers a path the host itself chose (dialog, drop, workspace); the same path keeps its handle. */
   async issuePath(path: string, purpose: string, writable: boolean): Promise<FileHandle> {
     let entry = [...this.entries.values()].find((each) => each.path === path && each.purpose === purpose);
@@ -37,6 +40,9 @@ export class FileRegistry {
   issueBytes(fileName: string, bytes: Uint8Array, purpose: string): FileHandle {
     const entry: FileEntry = { handle: newHandle(), fileName, purpose, path: null, bytes, writable: false };
     this.entries.set(entry.handle, entry);
+    const uploads = [...this.entries.values()].filter((each) => each.bytes !== null);
+    for (const old of uploads.slice(0, Math.max(0, uploads.length - this.maxUploads)))
+      this.release(old.handle);
     return { handle: entry.handle, fileName, size: bytes.byteLength };
   }
 

@@ -152,3 +152,20 @@ describe('serve options and folders', () => {
     });
   });
 });
+
+describe('the file handles', () => {
+  it('hands out opaque handles, keeps at most the newest uploads in memory, and wipes what it forgets', async () => {
+    const { FileRegistry } = await import('../../src-main/desktop/file-registry.js');
+    const registry = new FileRegistry(2);
+    const first = new Uint8Array([1, 2, 3]);
+    const a = registry.issueBytes('a.csv', first, 'data');
+    const b = registry.issueBytes('b.csv', new Uint8Array([4]), 'data');
+    const c = registry.issueBytes('c.csv', new Uint8Array([5]), 'data');
+    expect(a.handle).toMatch(/^[A-Za-z0-9_-]{24}$/);
+    expect(() => registry.get(a.handle)).toThrow('no longer available');
+    expect([...first]).toEqual([0, 0, 0]);
+    expect((await registry.read(b.handle)).fileName).toBe('b.csv');
+    expect((await registry.read(c.handle)).bytes).toEqual(new Uint8Array([5]));
+    expect(() => registry.writablePath(c.handle)).toThrow('choose where to save it first');
+  });
+});
