@@ -142,10 +142,10 @@ describe('limit-ledger analyze: bad input', () => {
       [3, 'count', '2.5'],
       [4, 'count', '-1'],
       [5, 'units', '0'],
-      [6, 'count', ''],
       [7, 'count', 'x'],
     ])
       expect(run.stderr).toContain(`bad.csv, row ${row}, column "${column}": "${value}"`);
+    expect(run.stderr).toContain('bad.csv, row 6, column "count": the cell is blank');
   });
 
   it('--skip-invalid analyses the rest and lists each left-out row under rejected', async () => {
