@@ -23,7 +23,7 @@ export const importFlags = {
   period: { type: 'string' },
   time: { type: 'string' },
   category: { type: 'string' },
-  shifts: { type: 'string' },
+  'shift-starts': { type: 'string' },
   'units-sheet': { type: 'string' },
   'units-file': { type: 'string' },
   'units-key': { type: 'string' },
@@ -45,7 +45,7 @@ export const importFlagHelp = [
   '--period day|week|shift|lot  the period events are grouped by (with --events)',
   '--time COL              the timestamp (or lot) column of an event list',
   '--category COL          the nonconformity category column of an event list',
-  '--shifts HH:MM,...      shift start times for --period shift (default 06:00,14:00,22:00)',
+  '--shift-starts HH:MM,... shift start times for --period shift (default 06:00,14:00,22:00)',
   '--units-sheet NAME      a sheet listing each period with its units (the --units column)',
   '--units-file FILE       a second file listing each period with its units (the --units column)',
   '--units-key COL         the period column of the units sheet or file (default: the --time name)',
@@ -109,11 +109,16 @@ export function importRequestFromFlags(flags: Record<string, unknown>): Result<I
   const period = oneOf(values, 'period', ['day', 'week', 'shift', 'lot'] as const, findings);
   const time = text(values, 'time');
   const category = text(values, 'category');
-  const shifts = text(values, 'shifts');
+  const shifts = text(values, 'shift-starts');
   const unitsSheet = text(values, 'units-sheet');
   const unitsFile = text(values, 'units-file');
   const unitsKey = text(values, 'units-key');
-  const eventsOnly = { shifts, 'units-sheet': unitsSheet, 'units-file': unitsFile, 'units-key': unitsKey };
+  const eventsOnly = {
+    'shift-starts': shifts,
+    'units-sheet': unitsSheet,
+    'units-file': unitsFile,
+    'units-key': unitsKey,
+  };
   if (events) {
     if (unitsSheet !== undefined && unitsFile !== undefined)
       findings.push({ message: 'give --units-sheet or --units-file, not both' });
@@ -122,7 +127,7 @@ export function importRequestFromFlags(flags: Record<string, unknown>): Result<I
         message: '--units-sheet and --units-file need --units COL, the units column of that table',
       });
     if (shifts !== undefined && period !== 'shift')
-      findings.push({ message: '--shifts applies to --period shift' });
+      findings.push({ message: '--shift-starts applies to --period shift' });
     if (period === undefined && text(values, 'period') === undefined)
       findings.push({ message: '--events needs --period day, week, shift or lot' });
     if (time === undefined)

@@ -44,7 +44,7 @@ describe('importRequestFromFlags', () => {
           'when',
           '--category',
           'defect',
-          '--shifts',
+          '--shift-starts',
           '07:00, 19:00',
         ],
         ...['--units-sheet', 'Units', '--units', 'boards', '--units-key', 'day'],
@@ -96,9 +96,9 @@ describe('importRequestFromFlags', () => {
       ok: false,
       findings: [{ message: expect.stringContaining('need --units COL') }],
     });
-    expect(parse('--count', 'c', '--period', 'day', '--shifts', '06:00')).toMatchObject({
+    expect(parse('--count', 'c', '--period', 'day', '--shift-starts', '06:00')).toMatchObject({
       ok: false,
-      findings: [{ message: '--period, --shifts describe an event list: add --events' }],
+      findings: [{ message: '--period, --shift-starts describe an event list: add --events' }],
     });
   });
 });

@@ -1,15 +1,6 @@
 import { parseArgs } from 'node:util';
 import { describeFinding } from '../../../shared-core/result.js';
-import { parseRuleList } from '../../../shared-core/rules/rule-catalog.js';
-import { normalQuantile } from '../../../shared-core/stats/normal.js';
-import {
-  defaultOptions,
-  type AnalysisOptions,
-  type AnalysisResult,
-  type Exclusion,
-  type Observation,
-  type RuleId,
-} from '../../../shared-core/study/analysis-types.js';
+import type { AnalysisResult, RuleId } from '../../../shared-core/study/analysis-types.js';
 import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
 import {
   averageRunLength,
@@ -18,12 +9,13 @@ import {
   typicalUnits,
 } from '../../../shared-core/changes/average-run-length.js';
 import { importFlagHelp, importFlags } from '../import-flags.js';
-import { periodIndex } from './analyze.js';
-import { importPeriods, InputError, isStudyPath, openBaseline } from './compare.js';
+import { InputError } from '../input-error.js';
+import { analysisOptions, exclusionFromFlag, exclusionsFromFile, methodFlags } from '../method-flags.js';
+import { importPeriods, isStudyPath, openBaseline } from './compare.js';
 
 export const usage = `Usage: limit-ledger arl FILE --count COL [--units COL] [--label COL]
   [--chart c|u] [--limits sigma|probability|laney] [--sigma L] [--alpha A | --fap F] [--rate R]
-  [--exclude LABEL=REASON]... [--rules LIST] [--shifts LIST] [--at-units K] [--skip-invalid] [--json]
+  [--exclude LABEL=REASON]... [--exclusions FILE] [--rules LIST] [--shifts LIST] [--at-units K] [--skip-invalid] [--json]
        limit-ledger arl STUDY [--rules LIST] [--shifts LIST] [--at-units K] [--json]
 
 The average run length of the limits the analysis of FILE sets, or of the latest approved
@@ -32,7 +24,7 @@ stays where it is, and when it rises by the shifts asked (exact Poisson counts; 
 1/p, rule sets by a Markov chain).
 
   ${importFlagHelp.join('\n  ')}
-  --chart, --limits, --sigma, --alpha, --fap, --rate, --exclude, --rules   as for analyze
+  --chart, --limits, --sigma, --alpha, --fap, --rate, --exclude, --exclusions, --rules   as for analyze
   --shifts LIST           rates as multiples of the center, e.g. 1.25,1.5,2 (the default)
   --at-units K            the inspection units of a period (default: the mean k of the included periods)
   --skip-invalid          leave out invalid rows
@@ -41,7 +33,7 @@ stays where it is, and when it rises by the shifts asked (exact Poisson counts; 
 
 /** Flags that describe a data file and its analysis: a study already fixes them. */
 const studyOnlyFlags = [
-  ...Object.keys(importFlags).filter((flag) => flag !== 'shifts'),
+  ...Object.keys(importFlags),
   'chart',
   'limits',
   'sigma',
@@ -49,6 +41,7 @@ const studyOnlyFlags = [
   'fap',
   'rate',
   'exclude',
+  'exclusions',
   'skip-invalid',
 ];
 
@@ -72,67 +65,6 @@ function positiveNumber(text: string | undefined, flag: string, test: (x: number
   return value;
 }
 
-/** The method flags of analyze, with the same meaning and the same checks. */
-function methodOptions(values: Record<string, string | boolean | string[] | undefined>): AnalysisOptions {
-  const text = (name: string) => values[name] as string | undefined;
-  const chart = text('chart');
-  if (chart !== undefined && chart !== 'c' && chart !== 'u')
-    throw new InputError(`--chart "${chart}" must be c or u`);
-  const limits = text('limits') ?? 'sigma';
-  if (limits !== 'sigma' && limits !== 'probability' && limits !== 'laney')
-    throw new InputError(`--limits "${limits}" must be sigma, probability or laney`);
-  const probability = (x: number) => x > 0 && x < 1;
-  const sigma = positiveNumber(text('sigma'), 'sigma', (x) => x > 0, 'must be a positive multiplier');
-  const alpha = positiveNumber(text('alpha'), 'alpha', probability, 'must be a probability between 0 and 1');
-  const fap = positiveNumber(text('fap'), 'fap', probability, 'must be a probability between 0 and 1');
-  const rate = positiveNumber(
-    text('rate'),
-    'rate',
-    (x) => x > 0,
-    'must be a positive rate per inspection unit',
-  );
-  if (alpha !== undefined && fap !== undefined) throw new InputError('give --alpha or --fap, not both');
-  let multiplier = sigma ?? defaultOptions.multiplier;
-  if (limits !== 'probability' && (alpha !== undefined || fap !== undefined)) {
-    if (sigma !== undefined)
-      throw new InputError('give --sigma or a false-alarm target (--alpha, --fap), not both');
-    if (alpha !== undefined) multiplier = normalQuantile(1 - alpha / 2);
-  }
-  if (limits === 'probability' && sigma !== undefined)
-    throw new InputError('--sigma sets sigma and Laney limits; probability limits take --alpha or --fap');
-  let rules = defaultOptions.rules;
-  if (text('rules') !== undefined) {
-    const parsed = parseRuleList(text('rules') as string);
-    if ('unknown' in parsed)
-      throw new InputError(`--rules: unknown rule(s) ${parsed.unknown.map((r) => `"${r}"`).join(', ')}`);
-    rules = parsed.rules;
-  }
-  return {
-    ...(chart ? { chart } : {}),
-    limits,
-    multiplier,
-    alpha: alpha ?? defaultOptions.alpha,
-    ...(fap !== undefined ? { fap } : {}),
-    ...(rate !== undefined ? { knownRate: rate } : {}),
-    rules,
-  };
-}
-
-function exclusionFrom(text: string, observations: readonly Observation[]): Exclusion {
-  const equals = text.indexOf('=');
-  if (equals <= 0) throw new InputError(`--exclude "${text}" must be LABEL=REASON`);
-  const reason = text.slice(equals + 1).trim();
-  if (reason === '') throw new InputError(`--exclude "${text}": an exclusion needs an assignable cause`);
-  const index = periodIndex(text.slice(0, equals).trim(), observations);
-  if (typeof index === 'string') throw new InputError(`--exclude: ${index}`);
-  const colon = reason.indexOf(':');
-  const cause =
-    colon > 0 && colon < reason.length - 1
-      ? { category: reason.slice(0, colon).trim(), description: reason.slice(colon + 1).trim() }
-      : { category: 'unspecified', description: reason };
-  return { index, cause };
-}
-
 /** `1.25,1.5,2`: each a positive multiple of the rate. */
 export function parseShifts(text: string): number[] {
   const parts = text.split(',').map((part) => part.trim());
@@ -153,14 +85,7 @@ async function arl(argv: string[]): Promise<number> {
       strict: true,
       options: {
         ...importFlags,
-        chart: { type: 'string' },
-        limits: { type: 'string' },
-        sigma: { type: 'string' },
-        alpha: { type: 'string' },
-        fap: { type: 'string' },
-        rate: { type: 'string' },
-        exclude: { type: 'string', multiple: true },
-        rules: { type: 'string' },
+        ...methodFlags,
         shifts: { type: 'string' },
         'at-units': { type: 'string' },
         'skip-invalid': { type: 'boolean' },
@@ -202,17 +127,20 @@ async function arl(argv: string[]): Promise<number> {
     revision = baseline.revision.number;
     rules =
       values.rules !== undefined
-        ? methodOptions({ rules: values.rules }).rules
+        ? analysisOptions({ rules: values.rules }).rules
         : baseline.revision.method.rules;
   } else {
-    const options = methodOptions(values);
+    const options = analysisOptions(values);
     // --shifts here are rises in the rate (the name the issue gives), not the work-shift starts of
     // an event list that the import flags also call --shifts.
     const { shifts: _rises, ...importValues } = values;
     const outcome = await importPeriods(target, importValues, values['skip-invalid'] === true);
     file = outcome.report.file ?? target;
     const observations = outcome.observations;
-    const exclusions = (values.exclude ?? []).map((text) => exclusionFrom(text, observations));
+    const exclusions = [
+      ...(values.exclude ?? []).map((text) => exclusionFromFlag(text, observations)),
+      ...(values.exclusions ? await exclusionsFromFile(values.exclusions, observations) : []),
+    ];
     const analysis = analyzePhaseOne(observations, exclusions, options);
     if (!analysis.ok)
       throw new InputError(analysis.findings.map((f) => describeFinding({ file, ...f })).join('\n'));

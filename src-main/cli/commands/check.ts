@@ -2,7 +2,8 @@ import { parseArgs } from 'node:util';
 import { parseRuleList } from '../../../shared-core/rules/rule-catalog.js';
 import { checkNewPeriods } from '../../../shared-core/changes/new-periods-check.js';
 import { importFlagHelp, importFlags } from '../import-flags.js';
-import { importPeriods, InputError, isStudyPath, openBaseline } from './compare.js';
+import { InputError } from '../input-error.js';
+import { importPeriods, isStudyPath, openBaseline } from './compare.js';
 
 export const usage = `Usage: limit-ledger check STUDY NEWDATA --count COL [--units COL] [--label COL]
   [--rules LIST] [--skip-invalid] [--json]

@@ -8,6 +8,7 @@ import { approvedBaseline, type ApprovedBaseline } from '../../../shared-core/ch
 import { importFile } from '../../services/import/import-file.js';
 import { openStudyFile } from '../../services/study-file.js';
 import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-flags.js';
+import { InputError } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger compare BASE NEW --count COL [--units COL] [--label COL]
   [--confidence C] [--skip-invalid] [--json]
@@ -22,9 +23,6 @@ the included periods of its latest approved revision.
   --skip-invalid          leave out invalid rows, each listed under "rejected"
   --json                  print one JSON object
 `;
-
-/** A usage or input problem: exit status 2 with a message that names file, row and column. */
-export class InputError extends Error {}
 
 /** Over-dispersion at this level in either sample makes the exact test optimistic. */
 const DISPERSION_LEVEL = 0.01;
