@@ -1,7 +1,7 @@
 #!/usr/bin/env node
-// `npm start` (after `npm run build`): the desktop app in Electron when its runtime is installed;
-// otherwise one line saying why not, and the same app through the loopback browser host.
-import { spawn } from 'node:child_process';
+// `npm start` (after `npm run build`): the desktop app in Electron, downloading its runtime on first
+// use; where it cannot be had, one line saying why, and the same app through the loopback browser host.
+import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
@@ -39,7 +39,26 @@ function noDisplay() {
   return process.platform === 'linux' && !process.env.DISPLAY && !process.env.WAYLAND_DISPLAY;
 }
 
-const runtime = electronRuntime();
+/**
+ * On first start the Electron runtime is not there yet (electron 45 downloads nothing at install):
+ * fetch it with the package's own installer, quietly, and report only whether that worked.
+ */
+function downloadRuntime() {
+  let installer;
+  try {
+    installer = join(dirname(createRequire(import.meta.url).resolve('electron/package.json')), 'install.js');
+  } catch {
+    return false;
+  }
+  if (!existsSync(installer)) return false;
+  process.stderr.write('Limit Ledger: first start: downloading the Electron runtime…\n');
+  const result = spawnSync(process.execPath, [installer], { stdio: 'ignore', timeout: 10 * 60 * 1000 });
+  return result.status === 0;
+}
+
+let runtime = electronRuntime();
+if (runtime.missing && !process.env.ELECTRON_OVERRIDE_DIST_PATH && downloadRuntime())
+  runtime = electronRuntime();
 if (runtime.executable && !noDisplay()) {
   const child = spawn(runtime.executable, [root, ...args], { stdio: 'inherit' });
   child.on('exit', (code, signal) => {
