@@ -68,6 +68,8 @@ export class StudyState {
   lastProblem = $state('');
   /** When set, the chart shows only this category's nonconformities. */
   category = $state<string | null>(null);
+  /** The document as it was opened or started, before any decision of this session. */
+  openedDocument = $state.raw<Study | null>(null);
 
   /** The decisions folded: corrected observations, exclusions in force, method, undo and redo. */
   readonly state = $derived(this.document ? decisions.deriveState(this.document) : null);
@@ -231,6 +233,7 @@ export class StudyState {
   #open(meta: StudyMeta, document: Study): void {
     this.meta = meta;
     this.document = document;
+    this.openedDocument = document;
     this.category = null;
     this.readOnly = false;
     this.openFindings = [];
