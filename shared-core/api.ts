@@ -259,12 +259,19 @@ export const ExportPacketRequest = z.object({
   format: z.enum(['pdf', 'workbook']),
   /** A target from `chooseSaveTarget` (desktop); omitted on the web host, where it becomes a download. */
   target: FileHandleId.optional(),
+  /**
+   * A key to put a PDF signature on the packet (PDF only): the key file, chosen or uploaded, and its
+   * passphrase, kept in memory for this job only, as for `signStudy`. Without it the PDF is unsigned.
+   */
+  signature: z.object({ key: FileHandleId, passphrase: z.string().min(1).max(1024) }).optional(),
 });
 
 export const ExportPacketResult = z.object({
   file: FileHandle,
   /** On the web host: a same-origin URL that downloads the file once. */
   downloadUrl: z.string().startsWith('/download/').optional(),
+  /** The SHA-256 fingerprint of the certificate that signed the PDF, when it was signed. */
+  signedBy: z.string().optional(),
 });
 
 export const SignStudyRequest = z.object({

@@ -126,6 +126,15 @@ export function createHandlers(context: HostContext): Handlers {
   const { files, picker, jobs, services, recovery } = context;
   let currentStudyName: string | null = null;
 
+  /** Forgets an uploaded key's bytes once its job is over; a key chosen by path stays usable. */
+  const releaseUpload = (handle: string): void => {
+    try {
+      if (files.get(handle).bytes !== null) files.release(handle);
+    } catch {
+      // Already released.
+    }
+  };
+
   const withFile = (view: Omit<StudyView, 'file'>, file: FileHandle | null): StudyView => ({ ...view, file });
 
   return {
@@ -241,7 +250,16 @@ export function createHandlers(context: HostContext): Handlers {
       return services.analyze(observations, exclusions, options) as ResponseOf<'analyze'>;
     },
 
-    async exportPacket({ document, format, target }) {
+    async exportPacket({ document, format, target, signature }) {
+      if (signature && format !== 'pdf') {
+        releaseUpload(signature.key);
+        throw new HostError(
+          'bad-request',
+          'only the PDF packet carries a signature; the workbook is not signed',
+        );
+      }
+      // As for signStudy: the key's bytes and the passphrase live in the worker for this job only.
+      const key = signature ? await files.read(signature.key) : undefined;
       const fileName = `${(currentStudyName ?? 'study').replace(/\.ledger$/i, '')}${format === 'pdf' ? '.pdf' : '.xlsx'}`;
       let path: string;
       let downloadUrl: string | undefined;
@@ -255,15 +273,27 @@ export function createHandlers(context: HostContext): Handlers {
       const paper = settings.ok && settings.value.paperSize === 'Letter' ? 'letter' : 'a4';
       const jobId = jobs.start(
         'exportPacket',
-        { document, format, paper },
+        {
+          document,
+          format,
+          paper,
+          ...(signature && key ? { signature: { key, passphrase: signature.passphrase } } : {}),
+        },
         {
           outputTarget: path,
-          finish: async () => ({
-            file: await files.issuePath(path, purposeOfJob.exportPacket, false),
-            ...(downloadUrl ? { downloadUrl } : {}),
-          }),
+          finish: async (result) => {
+            const signedBy = (result as { signedBy?: unknown } | undefined)?.signedBy;
+            const file = await files.issuePath(path, purposeOfJob.exportPacket, false);
+            return {
+              // A download reaches the user under its own name, not the host's unique temporary one.
+              file: downloadUrl ? { ...file, fileName } : file,
+              ...(downloadUrl ? { downloadUrl } : {}),
+              ...(typeof signedBy === 'string' ? { signedBy } : {}),
+            };
+          },
         },
       );
+      if (signature) void jobs.settled(jobId).then(() => releaseUpload(signature.key));
       return { jobId };
     },
 
@@ -278,13 +308,7 @@ export function createHandlers(context: HostContext): Handlers {
         key: keyFile,
         passphrase,
       });
-      void jobs.settled(jobId).then(() => {
-        try {
-          if (files.get(key).bytes !== null) files.release(key);
-        } catch {
-          // Already released.
-        }
-      });
+      void jobs.settled(jobId).then(() => releaseUpload(key));
       return { jobId };
     },
 

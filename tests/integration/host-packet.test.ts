@@ -6,6 +6,8 @@ import {
   createPersonalIdentity,
   exportPkcs12,
 } from '../../src-main/services/signing/personal-certificate.js';
+import { verifyPacket } from '../../src-main/services/packet/packet-verify.js';
+import { findSignatures } from '../../src-main/services/packet/pdf-signature.js';
 import { startBrowserHost, type BrowserHost } from '../../src-main/web/browser-host.js';
 
 type Reply = {
@@ -99,13 +101,70 @@ describe('signing and export as host jobs', () => {
     const download = await fetch(`${host.origin}${downloadUrl}`, { headers: headers() });
     expect(download.status).toBe(200);
     expect(download.headers.get('content-disposition')).toMatch(/^attachment;/);
-    expect(
-      Buffer.from(await download.arrayBuffer())
-        .subarray(0, 5)
-        .toString('latin1'),
-    ).toBe('%PDF-');
+    const unsignedPdf = Buffer.from(await download.arrayBuffer());
+    expect(unsignedPdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    expect(findSignatures(unsignedPdf)).toEqual([]);
     expect((await fetch(`${host.origin}${downloadUrl}`, { headers: headers() })).status).toBe(404);
-  }, 120_000);
+    // Without a key the packet carries no PDF signature, and verify says so.
+    const unsignedVerdict = await verifyPacket({ pdf: unsignedPdf });
+    expect(unsignedVerdict.ok).toBe(false);
+    expect(unsignedVerdict.lines).toContainEqual({ ok: false, text: 'the PDF is not signed' });
+
+    // A wrong passphrase stops the signed export before any file is made, and is not echoed back.
+    const keyFor = async () =>
+      (await call('uploadFile', { purpose: 'key', fileName: 'preparer.p12', bytes: p12.toString('base64') }))
+        .value!.handle as string;
+    const badKey = await keyFor();
+    const badExport = await call('exportPacket', {
+      document: result.document,
+      format: 'pdf',
+      signature: { key: badKey, passphrase: 'not it either' },
+    });
+    const badOutcome = await finish(badExport.value!.jobId as string);
+    expect(badOutcome?.state).toBe('failed');
+    expect(JSON.stringify(badOutcome)).not.toContain('not it either');
+    expect((await call('inspectData', { file: badKey })).error?.code).toBe('unknown-file');
+
+    // With the key, the PDF is signed by that certificate, and the packet verifies on its own.
+    const goodKey = await keyFor();
+    const signedExport = await call('exportPacket', {
+      document: result.document,
+      format: 'pdf',
+      signature: { key: goodKey, passphrase: 'invented passphrase' },
+    });
+    const signedOutcome = await finish(signedExport.value!.jobId as string);
+    expect(signedOutcome?.state, JSON.stringify(signedOutcome)).toBe('done');
+    const signedResult = (signedOutcome as { result: { downloadUrl: string; signedBy: string } }).result;
+    expect(signedResult.signedBy).toBe(identity.facts.fingerprint);
+    expect(JSON.stringify(signedOutcome)).not.toContain('invented passphrase');
+    expect((await call('inspectData', { file: goodKey })).error?.code).toBe('unknown-file');
+    const signedPdf = Buffer.from(
+      await (await fetch(`${host.origin}${signedResult.downloadUrl}`, { headers: headers() })).arrayBuffer(),
+    );
+    const signatures = findSignatures(signedPdf);
+    expect(signatures).toHaveLength(1);
+    const verdict = await verifyPacket({ pdf: signedPdf });
+    expect(verdict.ok, verdict.lines.map((line) => line.text).join('\n')).toBe(true);
+  }, 180_000);
+
+  it('refuses a key for the workbook, which carries no signature, and forgets the key', async () => {
+    const demo = (await call('demoStudy', {})).value!;
+    const key = (
+      await call('uploadFile', {
+        purpose: 'key',
+        fileName: 'stray.p12',
+        bytes: Buffer.from('x').toString('base64'),
+      })
+    ).value!;
+    const refused = await call('exportPacket', {
+      document: demo.document,
+      format: 'workbook',
+      signature: { key: key.handle, passphrase: 'whatever it is' },
+    });
+    expect(refused.ok).toBe(false);
+    expect(refused.error?.message).toMatch(/only the PDF packet carries a signature/);
+    expect((await call('inspectData', { file: key.handle })).error?.code).toBe('unknown-file');
+  });
 
   it('refuses to export a study with no revision, and leaves no file behind', async () => {
     const demo = (await call('demoStudy', {})).value!;

@@ -202,6 +202,23 @@ describe('the channel table', () => {
     expect(channels.hostInfo.request.safeParse({ extra: 1 }).success).toBe(false);
   });
 
+  it('takes a PDF signature key for the packet as the sign channel does: a handle and a passphrase', () => {
+    const packet = { document: {}, format: 'pdf' };
+    const signature = { key: file.handle, passphrase: 'correct horse' };
+    expect(channels.exportPacket.request.safeParse({ ...packet, signature }).success).toBe(true);
+    for (const bad of [
+      { key: file.handle },
+      { key: file.handle, passphrase: '' },
+      { key: '/home/someone/key.p12', passphrase: 'correct horse' },
+      { passphrase: 'correct horse' },
+    ]) {
+      expect(
+        channels.exportPacket.request.safeParse({ ...packet, signature: bad }).success,
+        JSON.stringify(bad),
+      ).toBe(false);
+    }
+  });
+
   it('describes every host event with one schema', () => {
     for (const event of [
       { type: 'job', event: { jobId, state: 'cancelled' } },

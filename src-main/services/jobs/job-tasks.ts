@@ -61,11 +61,20 @@ const importData: JobTask = async (input, { signal, progress }) => {
 };
 
 const exportPacket: JobTask = async (input, { signal, progress, outputPath }) => {
-  const { document, format, paper } = input as {
+  const { document, format, paper, signature } = input as {
     document: unknown;
     format: 'pdf' | 'workbook';
     paper: 'a4' | 'letter';
+    signature?: { key: { fileName: string; bytes: Uint8Array }; passphrase: string };
   };
+  // The key is opened first, so a wrong passphrase fails before the packet is drawn.
+  let identity: SigningIdentity | undefined;
+  if (signature && format === 'pdf') {
+    progress(0.02, 'opening the key');
+    const opened = identityFrom(signature.key, signature.passphrase);
+    if (!opened.ok) throw new JobFindings(opened.findings);
+    identity = opened.value;
+  }
   const study = studyFrom(document, 'the study');
   if (hasErrors(verifyStudy(study))) {
     throw new JobFindings([{ message: 'the study’s record does not verify; no packet is made from it' }]);
@@ -87,6 +96,7 @@ const exportPacket: JobTask = async (input, { signal, progress, outputPath }) =>
   stopIfCancelled(signal);
   const files = await packetFiles(content.value, {
     paper,
+    ...(identity ? { identity } : {}),
     onProgress: (fraction, what) => {
       stopIfCancelled(signal);
       progress(fraction * 0.95, what);
@@ -95,7 +105,7 @@ const exportPacket: JobTask = async (input, { signal, progress, outputPath }) =>
   stopIfCancelled(signal);
   await writeFile(outputPath!, format === 'pdf' ? files.pdf : files.workbook);
   progress(1, 'written');
-  return { format };
+  return identity ? { format, signedBy: identity.facts.fingerprint } : { format };
 };
 
 function identityFrom(
