@@ -25,8 +25,12 @@ class SignOff {
   printedName = $state('');
   role = $state('');
   meaning = $state<Meaning>('prepared');
-  key = $state.raw<FileHandle | null>(null);
+  /** The chosen key file's name, for the screen. */
+  key = $state.raw<{ fileName: string } | null>(null);
   passphrase = $state('');
+  /** Put a PDF signature on the exported packet with the same key; its passphrase is asked again. */
+  signPacket = $state(false);
+  packetPassphrase = $state('');
   busy = $state<'' | 'sign' | 'export'>('');
   progress = $state(0);
   progressMessage = $state('');
@@ -34,16 +38,27 @@ class SignOff {
   error = $state('');
   lastExport = $state.raw<{ fileName: string; url?: string } | null>(null);
   #abort: AbortController | null = null;
+  /** Web host: the file the user picked, uploaded afresh for each job (the host forgets it after one). */
+  #keyFile: File | null = null;
+  /** Desktop: the handle of the path chosen in the system's dialog, which the host keeps. */
+  #keyHandle: FileHandle | null = null;
 
-  async chooseKeyFile(file: File): Promise<void> {
+  chooseKeyFile(file: File): void {
     this.error = '';
-    try {
-      const bytes = new Uint8Array(await file.arrayBuffer());
-      const name = file.name.replace(/[\\/:*?"<>|]+/g, '-').replace(/^\.+/, '') || 'key.p12';
-      this.key = await api.uploadFile({ purpose: 'key', fileName: name, bytes: toBase64(bytes) });
-    } catch (error) {
-      this.error = messageOf(error);
-    }
+    this.#keyFile = file;
+    this.#keyHandle = null;
+    this.key = { fileName: file.name };
+    this.signPacket = true;
+  }
+
+  /** A handle the host can read the key from for one job. */
+  async #keyForJob(): Promise<string> {
+    if (this.#keyHandle) return this.#keyHandle.handle;
+    if (!this.#keyFile) throw new Error('choose a key file first');
+    const bytes = new Uint8Array(await this.#keyFile.arrayBuffer());
+    const name = this.#keyFile.name.replace(/[\\/:*?"<>|]+/g, '-').replace(/^\.+/, '') || 'key.p12';
+    const uploaded = await api.uploadFile({ purpose: 'key', fileName: name, bytes: toBase64(bytes) });
+    return uploaded.handle;
   }
 
   /** In the desktop app the key file comes from the system's dialog; the page never sees its path. */
@@ -51,7 +66,12 @@ class SignOff {
     this.error = '';
     try {
       const chosen = await api.chooseFile({ purpose: 'key' });
-      if (chosen) this.key = chosen;
+      if (chosen) {
+        this.#keyHandle = chosen;
+        this.#keyFile = null;
+        this.key = { fileName: chosen.fileName };
+        this.signPacket = true;
+      }
     } catch (error) {
       this.error = messageOf(error);
     }
@@ -73,6 +93,7 @@ class SignOff {
       return;
     }
     await this.#run('sign', async (signal) => {
+      const key = await this.#keyForJob();
       const signed = await api.runJob(
         'signStudy',
         {
@@ -80,7 +101,7 @@ class SignOff {
           meaning: this.meaning,
           printedName: this.printedName.trim(),
           role: this.role.trim(),
-          key: this.key!.handle,
+          key,
           passphrase: this.passphrase,
         },
         { signal, onProgress: (f, m) => this.#progress(f, m) },
@@ -96,6 +117,11 @@ class SignOff {
   async exportPacket(format: 'pdf' | 'workbook'): Promise<void> {
     const document = study.document;
     if (!document) return;
+    const signing = format === 'pdf' && this.signPacket;
+    if (signing && (!this.key || !this.packetPassphrase)) {
+      this.error = `Still needed for the PDF signature: ${!this.key ? 'a key file (.p12), chosen under Sign' : 'the passphrase of the key'}; or export it unsigned.`;
+      return;
+    }
     await this.#run('export', async (signal) => {
       let target: string | undefined;
       if (hostKind === 'electron') {
@@ -110,15 +136,20 @@ class SignOff {
         if (!chosen) return;
         target = chosen.handle;
       }
+      const signature = signing ? { key: await this.#keyForJob(), passphrase: this.packetPassphrase } : null;
       const result = await api.runJob(
         'exportPacket',
-        { document, format, ...(target ? { target } : {}) },
+        { document, format, ...(target ? { target } : {}), ...(signature ? { signature } : {}) },
         { signal, onProgress: (f, m) => this.#progress(f, m) },
       );
+      if (signature) this.packetPassphrase = '';
       this.lastExport = { fileName: result.file.fileName, url: result.downloadUrl };
       // On the web host the packet arrives as a download; on the desktop it is already where the user chose.
       if (result.downloadUrl) saveDownload(result.file.fileName, result.downloadUrl);
-      this.message = `The ${format === 'pdf' ? 'PDF packet' : 'workbook'} ${result.file.fileName} is ready.`;
+      const what = format === 'pdf' ? 'PDF packet' : 'workbook';
+      this.message = result.signedBy
+        ? `The ${what} ${result.file.fileName} is ready, signed with certificate ${result.signedBy.slice(0, 16)}…`
+        : `The ${what} ${result.file.fileName} is ready${format === 'pdf' ? ', without a PDF signature' : ''}.`;
     });
   }
 
