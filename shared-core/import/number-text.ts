@@ -28,7 +28,11 @@ const patterns: Record<DecimalMark, RegExp> = {
 };
 
 /** The number a text cell holds under the given decimal mark, or null when it holds no number. */
+const plainInteger = /^\d{1,15}$/;
+
 export function parseNumberText(text: string, decimal: DecimalMark): number | null {
+  // Most cells are plain whole numbers: read those without the general pattern.
+  if (plainInteger.test(text)) return Number(text);
   const match = patterns[decimal].exec(text.trim());
   if (!match?.groups) return null;
   const { sign, int, sep, frac, exp } = match.groups;

@@ -5,7 +5,6 @@ import { iterationHistory, iterationSnapshot } from '../../../shared-core/study/
 import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
 import { rejectionFinding, type ImportOutcome } from '../../../shared-core/import/import-report.js';
 import { importFile } from '../../services/import/import-file.js';
-import { saveAnalysisStudy } from '../../services/study-from-analysis.js';
 import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-flags.js';
 import { InputError } from '../input-error.js';
 import { analysisOptions, exclusionFromFlag, exclusionsFromFile, methodFlags } from '../method-flags.js';
@@ -100,6 +99,8 @@ async function analyze(argv: string[]): Promise<number> {
   const iterations = [...(trial?.ok ? trial.value : []), iterationSnapshot(result.value)];
 
   if (values.save) {
+    // The study document (and its schema library) loads only when a study is written.
+    const { saveAnalysisStudy } = await import('../../services/study-from-analysis.js');
     const saved = await saveAnalysisStudy(values.save, {
       file,
       outcome,

@@ -1,4 +1,4 @@
-import iconv from 'iconv-lite';
+import { createRequire } from 'node:module';
 import type { Finding, Result } from '../../../shared-core/result.js';
 import { fail, ok } from '../../../shared-core/result.js';
 
@@ -38,8 +38,14 @@ function bomEncoding(bytes: Uint8Array): { encoding: TextEncoding; length: numbe
   return null;
 }
 
+const utf8 = new TextDecoder('utf-8');
+let iconv: typeof import('iconv-lite') | undefined;
+
 function decodeAs(bytes: Uint8Array, encoding: TextEncoding): string {
-  // iconv-lite decodes every encoding the same way and strips a BOM of the named encoding.
+  // UTF-8, by far the most common, needs no library (TextDecoder strips its BOM); iconv-lite, loaded
+  // only when needed, decodes the others and strips a BOM of the named encoding.
+  if (encoding === 'utf-8') return utf8.decode(bytes);
+  iconv ??= createRequire(import.meta.url)('iconv-lite') as typeof import('iconv-lite');
   return iconv.decode(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), encoding);
 }
 

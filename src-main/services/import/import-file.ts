@@ -12,7 +12,6 @@ import { decodeText, type TextEncoding } from './decode-text.js';
 import { delimitedTable } from './delimited-table.js';
 import { importLimits, megabytes, type ImportLimits } from './import-limits.js';
 import type { ImportRequest, ProgressListener } from './import-request.js';
-import { xlsxTable } from './xlsx-table.js';
 import { checkZipInflation } from './zip-inflation-guard.js';
 
 export interface ImportOptions {
@@ -72,6 +71,8 @@ async function decodeTable(
     if (!checked.ok) return checked;
     if (signal?.aborted) return cancelled(file);
     options.onProgress?.({ phase: 'decoding' });
+    // The workbook reader is large: load it only for workbooks, so text imports start fast.
+    const { xlsxTable } = await import('./xlsx-table.js');
     return xlsxTable(
       bytes,
       file,
