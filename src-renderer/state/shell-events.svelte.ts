@@ -71,6 +71,8 @@ export class ShellEvents {
   #deps: ShellDependencies;
   #told: boolean | null = null;
   #autosaveTimer: ReturnType<typeof setTimeout> | null = null;
+  /** Settles when the first study is in; events wait for it so that the first study cannot replace theirs. */
+  #started: Promise<void> = Promise.resolve();
 
   constructor(deps: ShellDependencies) {
     this.#deps = deps;
@@ -91,7 +93,21 @@ export class ShellEvents {
     return this.#deps.api.onEvent((event) => void this.handle(event));
   }
 
+  /**
+   * Runs after the app's first start (the demo study): a file given at launch arrives meanwhile
+   * and must open after it, not under it; then copies left by a crash are offered.
+   */
+  async afterStartup(start: Promise<unknown>): Promise<void> {
+    this.#started = start.then(
+      () => undefined,
+      () => undefined,
+    );
+    await this.#started;
+    await this.checkRecovery();
+  }
+
   async handle(event: HostEvent): Promise<void> {
+    await this.#started;
     if (event.type === 'menu') await this.command(event.command);
     else if (event.type === 'file-opened') await this.fileOpened(event.file, event.purpose);
   }

@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { hasChromium, launchChromium, startServe, type ServedApp } from './helpers/browser.js';
+import { seriousViolations } from './screens-harness.js';
 import { newStudy, observationsHash } from '../../shared-core/study/new-study.js';
 import { localTime } from '../../shared-core/study/local-time.js';
 import { defaultOptions, type Observation } from '../../shared-core/study/analysis-types.js';
@@ -62,7 +63,11 @@ describe.skipIf(!hasChromium())('the recovery offer in Chromium', () => {
   });
 
   async function openApp(): Promise<{ page: Page; problems: string[]; close(): Promise<void> }> {
-    const context = await chromium.browser.newContext({ viewport: { width: 1280, height: 860 } });
+    // bypassCSP lets the test inject axe-core; the app runs under the host's policy otherwise.
+    const context = await chromium.browser.newContext({
+      viewport: { width: 1280, height: 860 },
+      bypassCSP: true,
+    });
     const page = await context.newPage();
     const problems: string[] = [];
     page.on('pageerror', (error) => problems.push(`page error: ${error.message}`));
@@ -83,6 +88,7 @@ describe.skipIf(!hasChromium())('the recovery offer in Chromium', () => {
     for (let i = 0; i < 4; i++) await page.keyboard.press('Tab');
     await expect(inside()).resolves.toBe(true);
     await page.screenshot({ path: join(output, 'recovery-offer.png') });
+    expect(await seriousViolations(page)).toEqual([]);
 
     await page.keyboard.press('Escape');
     await dialog.waitFor({ state: 'hidden' });

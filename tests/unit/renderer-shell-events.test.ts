@@ -182,8 +182,10 @@ describe('menu commands from the native menus', () => {
     expect(s.actions).toEqual(['save', 'save-as']);
 
     s.emit({ type: 'menu', command: 'export-packet' });
+    await flush();
     expect(s.screen()).toBe('signoff');
     s.emit({ type: 'menu', command: 'new-from-import' });
+    await flush();
     expect(s.screen()).toBe('data');
 
     // Saved, so Open does not ask; it goes to Review once a study is open.
@@ -269,6 +271,24 @@ describe('files that reach the window', () => {
       'confirm: Reel line has changes that are not saved. Open other.ledger anyway?',
     ]);
     expect(s.calls).toEqual([]);
+  });
+
+  it('opens a file given at launch after the first study is in, not under it', async () => {
+    const s = setup();
+    const stop = s.shell.start();
+    let finishStart = (): void => undefined;
+    const starting = s.shell.afterStartup(new Promise<void>((resolve) => (finishStart = resolve)));
+    s.emit({ type: 'file-opened', file: handle('launched.ledger'), purpose: 'study' });
+    await flush();
+    expect(s.calls).toEqual([]);
+    // The first start opens the demo, then the launched file follows it.
+    s.study.load({ name: 'Demo', unit: 'panel', demo: true }, observations);
+    finishStart();
+    await starting;
+    await flush();
+    expect(s.calls.map((c) => c.channel)).toEqual(['listRecovery', 'openStudy']);
+    expect(s.study.meta.name).toBe('Opened study');
+    stop();
   });
 
   it('starts an import of a dropped data file on the Data screen', async () => {
