@@ -291,6 +291,23 @@ export const SignStudyResult = z.object({
   notes: z.array(z.string()).optional(),
 });
 
+/**
+ * A personal signing certificate made on this computer (RSA 3072, self-issued). The host writes the
+ * key, encrypted with the passphrase, into the user's data folder (mode 0600) and returns a handle
+ * to it; the key itself never reaches the renderer.
+ */
+export const CreateSigningKeyRequest = z.object({
+  printedName: z.string().trim().min(1).max(200),
+  organization: z.string().trim().max(200).optional(),
+  passphrase: z.string().min(8).max(1024),
+});
+
+export const CreateSigningKeyResult = z.object({
+  key: FileHandle,
+  fingerprint: z.string(),
+  commonName: z.string(),
+});
+
 // ---- Jobs and host events --------------------------------------------------------------------
 
 export const JobId = z.string().regex(/^job-[A-Za-z0-9_-]{6,64}$/);
@@ -390,6 +407,11 @@ export const channels = {
   // Packet and signing.
   exportPacket: { request: ExportPacketRequest, response: JobStarted, result: ExportPacketResult },
   signStudy: { request: SignStudyRequest, response: JobStarted, result: SignStudyResult },
+  createSigningKey: {
+    request: CreateSigningKeyRequest,
+    response: JobStarted,
+    result: CreateSigningKeyResult,
+  },
 
   // Jobs.
   cancelJob: { request: z.object({ jobId: JobId }), response: z.object({ cancelled: z.boolean() }) },

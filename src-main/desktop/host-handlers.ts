@@ -1,3 +1,6 @@
+import { randomBytes } from 'node:crypto';
+import { mkdir } from 'node:fs/promises';
+import { join } from 'node:path';
 import { z } from 'zod';
 import {
   channels,
@@ -74,6 +77,8 @@ export interface HostContext {
   jobs: JobRunner;
   services: HostServices;
   recovery: RecoveryStore;
+  /** Where personal signing keys made in the app are written (in the user's data folder). */
+  keysFolder?: string;
   /** Told whenever the renderer's study gains or loses unsaved changes (the close prompt asks). */
   onUnsaved?(unsaved: boolean): void;
 }
@@ -309,6 +314,38 @@ export function createHandlers(context: HostContext): Handlers {
         passphrase,
       });
       void jobs.settled(jobId).then(() => releaseUpload(key));
+      return { jobId };
+    },
+
+    async createSigningKey({ printedName, organization, passphrase }) {
+      const folder = context.keysFolder;
+      if (!folder) throw new HostError('no-key-folder', 'this host has no folder for signing keys');
+      await mkdir(folder, { recursive: true, mode: 0o700 });
+      const slug =
+        printedName
+          .normalize('NFKD')
+          .replace(/[^A-Za-z0-9]+/g, '-')
+          .replace(/^-+|-+$/g, '')
+          .toLowerCase()
+          .slice(0, 40) || 'signer';
+      // A fresh name each time: a new key never replaces an older one that signed something.
+      const path = join(folder, `${slug}-${randomBytes(4).toString('hex')}.key`);
+      // The passphrase goes to the worker for this job only; the key stays in the file, encrypted.
+      const jobId = jobs.start(
+        'createSigningKey',
+        { printedName, ...(organization ? { organization } : {}), passphrase },
+        {
+          outputTarget: path,
+          finish: async (result) => {
+            const made = result as { fingerprint: string; commonName: string };
+            return {
+              key: await files.issuePath(path, 'key', false),
+              fingerprint: made.fingerprint,
+              commonName: made.commonName,
+            };
+          },
+        },
+      );
       return { jobId };
     },
 

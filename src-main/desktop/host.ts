@@ -1,3 +1,4 @@
+import { dirname, join } from 'node:path';
 import type { JobEvent } from '../../shared-core/api.js';
 import { JobRunner } from '../services/jobs/job-runner.js';
 import { FileRegistry } from './file-registry.js';
@@ -19,6 +20,8 @@ export interface HostSetup {
   picker: FilePicker;
   services: HostServices;
   recoveryFolder: string;
+  /** Where signing keys made in the app go; by default `keys` beside the recovery folder. */
+  keysFolder?: string;
   workspaceName?: string;
   onUnsaved?(unsaved: boolean): void;
   /** The module with the job task table (tests pass their own). */
@@ -41,6 +44,7 @@ export function createHost(setup: HostSetup): HostParts {
     jobs,
     services: setup.services,
     recovery,
+    keysFolder: setup.keysFolder ?? join(dirname(setup.recoveryFolder), 'keys'),
     onUnsaved: setup.onUnsaved,
   });
   return { handlers, events, jobs, files, recovery };

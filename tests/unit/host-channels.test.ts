@@ -133,6 +133,11 @@ const samples: Record<ChannelName, { request: unknown; response: unknown; result
     response: { jobId },
     result: { document: { signed: true }, fingerprint: 'ab'.repeat(32) },
   },
+  createSigningKey: {
+    request: { printedName: 'A. Example', organization: 'Invented Works', passphrase: 'correct horse' },
+    response: { jobId },
+    result: { key: file, fingerprint: 'cd'.repeat(32), commonName: 'A. Example' },
+  },
   cancelJob: { request: { jobId }, response: { cancelled: true } },
   jobStatus: {
     request: { jobId },
@@ -200,6 +205,13 @@ describe('the channel table', () => {
         .success,
     ).toBe(false);
     expect(channels.hostInfo.request.safeParse({ extra: 1 }).success).toBe(false);
+  });
+
+  it('asks a new signing key for a name and a passphrase of at least 8 characters', () => {
+    const request = channels.createSigningKey.request;
+    expect(request.safeParse({ printedName: 'A. Example', passphrase: 'short' }).success).toBe(false);
+    expect(request.safeParse({ printedName: '   ', passphrase: 'long enough' }).success).toBe(false);
+    expect(request.safeParse({ printedName: 'A. Example', passphrase: 'long enough' }).success).toBe(true);
   });
 
   it('takes a PDF signature key for the packet as the sign channel does: a handle and a passphrase', () => {

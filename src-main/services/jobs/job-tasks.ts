@@ -15,7 +15,12 @@ import type { ImportRequest } from '../import/import-request.js';
 import { importBytes } from '../import/import-file.js';
 import { packetFiles } from '../packet/make-packet.js';
 import { packetContent, packetRevision } from '../packet/packet-from-study.js';
-import { readPersonalKeyFile } from '../signing/personal-certificate.js';
+import { writeOwnerOnly } from '../signing/key-file.js';
+import {
+  createPersonalIdentity,
+  personalKeyFileText,
+  readPersonalKeyFile,
+} from '../signing/personal-certificate.js';
 import { readPkcs12 } from '../signing/pkcs12-identity.js';
 import { addSignOff } from '../signing/sign-off.js';
 import type { SigningIdentity } from '../signing/signing-identity.js';
@@ -156,4 +161,25 @@ const signStudy: JobTask = async (input, { signal, progress }) => {
   };
 };
 
-export const tasks: Record<string, JobTask> = { importData, exportPacket, signStudy };
+/** A personal signing certificate: the key file, encrypted with the passphrase, written owner-only. */
+const createSigningKey: JobTask = async (input, { signal, progress, outputPath }) => {
+  const { printedName, organization, passphrase } = input as {
+    printedName: string;
+    organization?: string;
+    passphrase: string;
+  };
+  progress(0.1, 'making an RSA 3072 key');
+  const identity = await createPersonalIdentity({
+    name: printedName,
+    ...(organization ? { organization } : {}),
+  });
+  stopIfCancelled(signal);
+  progress(0.5, 'encrypting the key with the passphrase');
+  const text = await personalKeyFileText(identity, passphrase);
+  stopIfCancelled(signal);
+  await writeOwnerOnly(outputPath!, text);
+  progress(1, 'written');
+  return { fingerprint: identity.facts.fingerprint, commonName: identity.facts.commonName };
+};
+
+export const tasks: Record<string, JobTask> = { importData, exportPacket, signStudy, createSigningKey };
