@@ -13,7 +13,14 @@ export type HostInfo = ResponseOf<'hostInfo'>;
 export interface ShellDependencies {
   api: Pick<
     Api,
-    'onEvent' | 'setUnsaved' | 'autosave' | 'listRecovery' | 'discardRecovery' | 'openStudy' | 'hostInfo'
+    | 'onEvent'
+    | 'setUnsaved'
+    | 'autosave'
+    | 'listRecovery'
+    | 'discardRecovery'
+    | 'openStudy'
+    | 'hostInfo'
+    | 'uploadFile'
   >;
   study: Pick<
     StudyState,
@@ -28,7 +35,13 @@ export interface ShellDependencies {
     opened(file: FileHandle | null): void;
   };
   navigation: { go(screen: ScreenId): void };
-  dataImport: { step: string; error: string; reset(): void; inspect(file: FileHandle): Promise<void> };
+  dataImport: {
+    step: string;
+    error: string;
+    reset(): void;
+    inspect(file: FileHandle): Promise<void>;
+    chooseFile(file: File): Promise<void>;
+  };
   confirm(message: string): boolean;
   hostKind: 'electron' | 'web';
   /** How long after the last decision the recovery copy is written. */
@@ -44,6 +57,13 @@ function messageOf(error: unknown): string {
 /** A recorded time in the reader's local form; a value, not reactive state. */
 function shownTime(iso: string): string {
   return new globalThis.Date(iso).toLocaleString();
+}
+
+function toBase64(bytes: Uint8Array): string {
+  let binary = '';
+  for (let i = 0; i < bytes.length; i += 0x8000)
+    binary += String.fromCharCode(...bytes.subarray(i, i + 0x8000));
+  return btoa(binary);
 }
 
 /** Ctrl+Z in a text field belongs to the field, not to the study's decisions (as in keyboard.ts). */
@@ -214,6 +234,38 @@ export class ShellEvents {
     // In Electron a cancelled unload would silently keep the window open; main asks instead.
     if (this.#deps.hostKind !== 'web' || !this.unsaved) return;
     event.preventDefault();
+  }
+
+  /** The web host lets files be dropped anywhere, as the desktop shell does (its preload takes them there). */
+  dragOver(event: DragEvent): void {
+    if (this.#deps.hostKind === 'web' && event.dataTransfer?.types.includes('Files')) event.preventDefault();
+  }
+
+  /**
+   * A file dropped outside the Data screen's own drop zone, on the web host: without this the
+   * browser would leave the app to show the file. A study is uploaded and opened, anything else
+   * starts an import.
+   */
+  async drop(event: DragEvent): Promise<void> {
+    if (this.#deps.hostKind !== 'web' || event.defaultPrevented) return;
+    const file = event.dataTransfer?.files[0];
+    if (!file) return;
+    event.preventDefault();
+    const { api, studyFile, navigation, dataImport } = this.#deps;
+    if (!/\.ledger$/i.test(file.name)) {
+      navigation.go('data');
+      if (dataImport.step === 'done' || dataImport.step === 'map') dataImport.reset();
+      await dataImport.chooseFile(file);
+      return;
+    }
+    try {
+      const safeName = file.name.replace(/[\\/:*?"<>|]+/g, '-').replace(/^\.+/, '') || 'study.ledger';
+      const bytes = toBase64(new Uint8Array(await file.arrayBuffer()));
+      const uploaded = await api.uploadFile({ purpose: 'study', fileName: safeName, bytes });
+      await this.fileOpened(uploaded, 'study');
+    } catch (error) {
+      studyFile.error = `${file.name} could not be opened: ${messageOf(error)}`;
+    }
   }
 
   /** On start: asks the host for copies left by a run that did not close cleanly. */

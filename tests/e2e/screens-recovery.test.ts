@@ -98,6 +98,31 @@ describe.skipIf(!hasChromium())('the recovery offer in Chromium', () => {
     await close();
   });
 
+  it('takes a data file dropped on the Review screen to the import preview instead of leaving the app', async () => {
+    const { page, problems, close } = await openApp();
+    await page.getByRole('dialog').waitFor({ state: 'visible', timeout: 20_000 });
+    await page.keyboard.press('Escape');
+    await page.getByTestId('control-chart').waitFor();
+    // Invented rows of an imaginary line.
+    const csv = 'shift,defects,panels\nA1,4,10\nA2,6,12\nA3,5,11\n';
+    await page.evaluate((text) => {
+      const transfer = new DataTransfer();
+      transfer.items.add(new File([text], 'line 7.csv', { type: 'text/csv' }));
+      const target = document.querySelector('main')!;
+      target.dispatchEvent(
+        new DragEvent('dragover', { dataTransfer: transfer, bubbles: true, cancelable: true }),
+      );
+      target.dispatchEvent(
+        new DragEvent('drop', { dataTransfer: transfer, bubbles: true, cancelable: true }),
+      );
+    }, csv);
+    await page.getByTestId('data-preview').waitFor({ timeout: 20_000 });
+    await expect(page.getByTestId('data-preview').textContent()).resolves.toContain('A2');
+    expect(page.url()).toBe(`${served.origin}/`);
+    expect(problems).toEqual([]);
+    await close();
+  });
+
   it('restores the copy as an unsaved study and replaces the old copy with this run’s own', async () => {
     const { page, problems, close } = await openApp();
     await page.getByTestId('recovery-restore').click({ timeout: 20_000 });

@@ -97,6 +97,10 @@ function setup(
         options.openStudy ?? (() => ({ ok: true, value: viewOf('Opened study', handle('opened.ledger')) }))
       )(request.file);
     },
+    async uploadFile(request: { purpose: string; fileName: string; bytes: string }) {
+      record('uploadFile', request);
+      return handle(request.fileName, 'uploaded-study');
+    },
     async hostInfo() {
       record('hostInfo', {});
       return { host: 'electron' as const, version: '9.9.9' };
@@ -133,6 +137,9 @@ function setup(
     },
     async inspect(file) {
       actions.push(`inspect ${file.handle}`);
+    },
+    async chooseFile(file) {
+      actions.push(`choose ${file.name}`);
     },
   };
   const shell = new ShellEvents({
@@ -308,6 +315,57 @@ describe('files that reach the window', () => {
     };
     await s.shell.fileOpened(handle('empty.csv'), 'data');
     expect(s.dataImport.error).toBe('empty.csv could not be read: the file is empty');
+  });
+});
+
+describe('files dropped on the window in the browser', () => {
+  function dropOf(file: File, prevented = false) {
+    let defaultPrevented = prevented;
+    return {
+      get defaultPrevented() {
+        return defaultPrevented;
+      },
+      preventDefault: () => void (defaultPrevented = true),
+      dataTransfer: { files: [file], types: ['Files'] },
+    } as unknown as DragEvent;
+  }
+  const bytes = new TextEncoder().encode('{"invented":true}');
+
+  it('uploads a dropped study and opens it by the handle the host gave', async () => {
+    const s = setup({ hostKind: 'web' });
+    s.studyFile.saved = s.study.document;
+    const event = dropOf(new File([bytes], 'line 4.ledger'));
+    await s.shell.drop(event);
+    expect(event.defaultPrevented).toBe(true);
+    expect(s.calls).toEqual([
+      {
+        channel: 'uploadFile',
+        request: {
+          purpose: 'study',
+          fileName: 'line 4.ledger',
+          bytes: Buffer.from(bytes).toString('base64'),
+        },
+      },
+      { channel: 'openStudy', request: { file: 'uploaded-study' } },
+    ]);
+    expect(s.study.meta.name).toBe('Opened study');
+  });
+
+  it('starts an import of any other dropped file on the Data screen', async () => {
+    const s = setup({ hostKind: 'web' });
+    await s.shell.drop(dropOf(new File([bytes], 'shifts.csv')));
+    expect(s.screen()).toBe('data');
+    expect(s.actions).toEqual(['choose shifts.csv']);
+  });
+
+  it('leaves drops to the Data screen’s own zone, and to the preload on the desktop', async () => {
+    const web = setup({ hostKind: 'web' });
+    await web.shell.drop(dropOf(new File([bytes], 'shifts.csv'), true));
+    const desktop = setup({ hostKind: 'electron' });
+    const event = dropOf(new File([bytes], 'shifts.csv'));
+    await desktop.shell.drop(event);
+    expect(event.defaultPrevented).toBe(false);
+    expect([...web.actions, ...desktop.actions, ...web.calls, ...desktop.calls]).toEqual([]);
   });
 });
 
