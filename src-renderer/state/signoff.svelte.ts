@@ -31,7 +31,12 @@ class SignOff {
   /** Put a PDF signature on the exported packet with the same key; its passphrase is asked again. */
   signPacket = $state(false);
   packetPassphrase = $state('');
-  busy = $state<'' | 'sign' | 'export'>('');
+  /** A personal certificate made here: the organization (optional) and the new key's passphrase, twice. */
+  newKeyOpen = $state(false);
+  newKeyOrganization = $state('');
+  newKeyPassphrase = $state('');
+  newKeyRepeat = $state('');
+  busy = $state<'' | 'sign' | 'export' | 'key'>('');
   progress = $state(0);
   progressMessage = $state('');
   message = $state('');
@@ -75,6 +80,41 @@ class SignOff {
     } catch (error) {
       this.error = messageOf(error);
     }
+  }
+
+  /**
+   * Makes a personal signing certificate for the printed name. The host keeps the encrypted key in
+   * the user's data folder and hands back a handle to it, which becomes the chosen key.
+   */
+  async createKey(): Promise<void> {
+    const missing: string[] = [];
+    if (!this.printedName.trim()) missing.push('your printed name');
+    if (this.newKeyPassphrase.length < 8) missing.push('a passphrase of at least 8 characters');
+    else if (this.newKeyPassphrase !== this.newKeyRepeat) missing.push('the same passphrase typed twice');
+    if (missing.length > 0) {
+      this.error = `Still needed for a personal certificate: ${missing.join(', ')}.`;
+      return;
+    }
+    await this.#run('key', async (signal) => {
+      const organization = this.newKeyOrganization.trim();
+      const made = await api.runJob(
+        'createSigningKey',
+        {
+          printedName: this.printedName.trim(),
+          ...(organization ? { organization } : {}),
+          passphrase: this.newKeyPassphrase,
+        },
+        { signal, onProgress: (f, m) => this.#progress(f, m) },
+      );
+      this.#keyHandle = made.key;
+      this.#keyFile = null;
+      this.key = { fileName: made.key.fileName };
+      this.signPacket = true;
+      this.newKeyPassphrase = '';
+      this.newKeyRepeat = '';
+      this.newKeyOpen = false;
+      this.message = `Made a self-issued certificate for ${made.commonName} (${made.fingerprint.slice(0, 16)}…), kept encrypted as ${made.key.fileName} in the app's data folder. Sign with it using the passphrase you just chose.`;
+    });
   }
 
   get missing(): string[] {
@@ -162,7 +202,7 @@ class SignOff {
     this.progressMessage = message;
   }
 
-  async #run(kind: 'sign' | 'export', work: (signal: AbortSignal) => Promise<void>): Promise<void> {
+  async #run(kind: 'sign' | 'export' | 'key', work: (signal: AbortSignal) => Promise<void>): Promise<void> {
     this.error = '';
     this.message = '';
     this.busy = kind;

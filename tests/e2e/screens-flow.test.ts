@@ -305,4 +305,63 @@ describe.skipIf(!hasChromium || !hasServe)('a baseline study by hand, against li
       }
     },
   );
+
+  it(
+    'makes a personal certificate on the Sign-off screen, signs with it and exports a packet that verifies',
+    { timeout: 180_000 },
+    async () => {
+      const work = await mkdtemp(join(tmpdir(), 'll-screens-newkey-'));
+      try {
+        const { page, context: browserContext } = await newPage(browser, { width: 1280, height: 800 });
+        await page.goto(served.url);
+        await page
+          .locator('[data-testid="control-chart"][data-ready="true"], [role="alert"]')
+          .first()
+          .waitFor();
+        await page.locator('[data-testid="nav-signoff"]').click();
+        await page.locator('[data-testid="sign-name"]').fill('Invented Preparer');
+        await page.locator('[data-testid="sign-role"]').fill('Process engineer');
+        await page.locator('[data-testid="new-key"] summary').click();
+        await page.locator('[data-testid="new-key-passphrase"]').fill('preparer passphrase');
+        await page.locator('[data-testid="new-key-repeat"]').fill('not the same');
+        await page.locator('[data-testid="new-key-create"]').click();
+        await expect
+          .poll(() => page.locator('[data-testid="signoff-error"]').innerText())
+          .toContain('the same passphrase typed twice');
+        await page.locator('[data-testid="new-key-repeat"]').fill('preparer passphrase');
+        await page.locator('[data-testid="new-key-create"]').click();
+        const made = page
+          .locator('[data-testid="signoff-message"]')
+          .filter({ hasText: 'self-issued certificate' });
+        await made.waitFor({ timeout: 60_000 });
+        expect(await made.innerText()).not.toContain('preparer passphrase');
+        await screenshot(page, 'signoff-new-key');
+
+        await page.locator('[data-testid="sign-passphrase"]').fill('preparer passphrase');
+        await page.locator('[data-testid="sign-submit"]').click();
+        await page
+          .locator('[data-testid="signoff-message"]')
+          .filter({ hasText: 'Signed as prepared by Invented Preparer' })
+          .waitFor({ timeout: 60_000 });
+        // The key made here stays with the host, so the packet is signed with the same handle.
+        await page.locator('[data-testid="packet-passphrase"]').fill('preparer passphrase');
+        const downloading = page.waitForEvent('download', { timeout: 60_000 });
+        await page.locator('[data-testid="export-pdf"]').click();
+        const pdf = join(work, 'packet.pdf');
+        await (await downloading).saveAs(pdf);
+        await page
+          .locator('[data-testid="signoff-message"]')
+          .filter({ hasText: 'signed with certificate' })
+          .waitFor();
+        const verified = spawnSync(process.execPath, [resolve('bin/limit-ledger.js'), 'verify', pdf], {
+          encoding: 'utf8',
+        });
+        expect(verified.status, verified.stderr + verified.stdout).toBe(0);
+        expect(verified.stdout).toMatch(/self-issued/);
+        await browserContext.close();
+      } finally {
+        await rm(work, { recursive: true, force: true });
+      }
+    },
+  );
 });
