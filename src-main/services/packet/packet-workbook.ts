@@ -1,4 +1,5 @@
-import ExcelJS from 'exceljs';
+import { createRequire } from 'node:module';
+import type ExcelJS from 'exceljs';
 import type { AnalysisResult } from '../../../shared-core/study/analysis-types.js';
 import { limitsTable } from './limits-table.js';
 import type { PacketContent } from './packet-content.js';
@@ -15,6 +16,10 @@ import type { PacketContent } from './packet-content.js';
  *
  * Everything a user typed (labels, causes, names, notes) is written as text, never as a formula.
  */
+// The workbook class alone: the package's index also loads its streaming readers and their zip
+// library, which a packet never uses and which cost more start-up time than the whole workbook.
+const Workbook = createRequire(import.meta.url)('exceljs/lib/doc/workbook.js') as typeof ExcelJS.Workbook;
+
 export interface WorkbookOptions {
   /** Leave out the cached formula results (tests use this to force a recalculation). */
   withoutCachedValues?: boolean;
@@ -38,7 +43,7 @@ const abs = (address: string) => `Limits!$${address[0]}$${address.slice(1)}`;
 
 export async function buildWorkbook(content: PacketContent, options: WorkbookOptions = {}): Promise<Buffer> {
   const result = content.result;
-  const book = new ExcelJS.Workbook();
+  const book = new Workbook();
   book.creator = 'Limit Ledger';
   book.created = new Date(content.generatedAt);
   book.modified = book.created;
@@ -335,7 +340,7 @@ export interface WorkbookStatement {
 }
 
 export async function readWorkbookStatement(bytes: Uint8Array): Promise<WorkbookStatement> {
-  const book = new ExcelJS.Workbook();
+  const book = new Workbook();
   // exceljs's types want its own Buffer flavor.
   await book.xlsx.load(Buffer.from(bytes) as unknown as ExcelJS.Buffer);
   const data = book.getWorksheet('Data');
