@@ -1,16 +1,5 @@
 import type { ChartSeries, StepVertex } from './chart-series.js';
-
-/** DESIGN.md's visual language, repeated here so that an exported SVG looks like the screen. */
-const palette = {
-  background: '#FAFAF7',
-  ink: '#1F2933',
-  center: '#3E5C76',
-  limit: '#0F766E',
-  signal: '#B45309',
-  excluded: '#66717F',
-  grid: '#E4E7EB',
-  path: '#9AA5B1',
-};
+import { palette } from './palette.js';
 
 function escapeXml(text: string): string {
   return text.replace(

@@ -1,12 +1,7 @@
-/** DESIGN.md's visual language; every graphic is at least 3:1 against the background. */
+import { palette } from '../../shared-core/view/palette.js';
+
+/** DESIGN.md's visual language (shared-core/view/palette.ts), plus the screen's selection tint. */
 export const colors = {
-  background: '#FAFAF7',
-  ink: '#1F2933',
-  center: '#3E5C76',
-  limit: '#0F766E',
-  signal: '#B45309',
-  excluded: '#66717F',
-  grid: '#E4E7EB',
-  path: '#9AA5B1',
+  ...palette,
   selection: 'rgba(62, 92, 118, 0.12)',
 } as const;

@@ -1,4 +1,5 @@
 import type { AnalysisResult, PeriodResult } from '../../../shared-core/study/analysis-types.js';
+import { palette } from '../../../shared-core/view/palette.js';
 
 /**
  * The packet's chart as drawing primitives, laid out once and drawn by two back ends (PDF vector
@@ -7,15 +8,7 @@ import type { AnalysisResult, PeriodResult } from '../../../shared-core/study/an
  *
  * The visual language is the project's own (DESIGN.md, "Look and words").
  */
-export const palette = {
-  background: '#FAFAF7',
-  ink: '#1F2933',
-  center: '#3E5C76',
-  limit: '#0F766E',
-  signal: '#B45309',
-  excluded: '#66717F',
-  grid: '#E4E4DE',
-} as const;
+export { palette };
 
 export type Point = [number, number];
 export type Anchor = 'start' | 'middle' | 'end';
