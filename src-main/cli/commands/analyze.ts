@@ -6,7 +6,7 @@ import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
 import { rejectionFinding, type ImportOutcome } from '../../../shared-core/import/import-report.js';
 import { importFile } from '../../services/import/import-file.js';
 import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-flags.js';
-import { InputError } from '../input-error.js';
+import { exitOnInputError, InputError } from '../input-error.js';
 import { analysisOptions, exclusionFromFlag, exclusionsFromFile, methodFlags } from '../method-flags.js';
 import { analysisJson } from '../analysis-json.js';
 import { analysisTable } from '../analysis-table.js';
@@ -32,17 +32,7 @@ export const usage = `Usage: limit-ledger analyze FILE --count COL [--units COL]
   --save STUDY        also write the study (.ledger): the import, each exclusion and the iterations
 `;
 
-export async function run(argv: string[]): Promise<number> {
-  try {
-    return await analyze(argv);
-  } catch (error) {
-    if (error instanceof InputError) {
-      process.stderr.write(`limit-ledger analyze: ${error.message}\n`);
-      return 2;
-    }
-    throw error;
-  }
-}
+export const run = exitOnInputError('analyze', analyze);
 
 async function analyze(argv: string[]): Promise<number> {
   let parsed;

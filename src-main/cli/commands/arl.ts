@@ -9,7 +9,7 @@ import {
   typicalUnits,
 } from '../../../shared-core/changes/average-run-length.js';
 import { importFlagHelp, importFlags } from '../import-flags.js';
-import { InputError } from '../input-error.js';
+import { exitOnInputError, InputError } from '../input-error.js';
 import { analysisOptions, exclusionFromFlag, exclusionsFromFile, methodFlags } from '../method-flags.js';
 import { importPeriods, isStudyPath, openBaseline } from './compare.js';
 
@@ -45,17 +45,7 @@ const studyOnlyFlags = [
   'skip-invalid',
 ];
 
-export async function run(argv: string[]): Promise<number> {
-  try {
-    return await arl(argv);
-  } catch (error) {
-    if (error instanceof InputError) {
-      process.stderr.write(`limit-ledger arl: ${error.message}\n`);
-      return 2;
-    }
-    throw error;
-  }
-}
+export const run = exitOnInputError('arl', arl);
 
 function positiveNumber(text: string | undefined, flag: string, test: (x: number) => boolean, what: string) {
   if (text === undefined) return undefined;

@@ -2,7 +2,7 @@ import { parseArgs } from 'node:util';
 import { parseRuleList } from '../../../shared-core/rules/rule-catalog.js';
 import { checkNewPeriods } from '../../../shared-core/changes/new-periods-check.js';
 import { importFlagHelp, importFlags } from '../import-flags.js';
-import { InputError } from '../input-error.js';
+import { exitOnInputError, InputError } from '../input-error.js';
 import { importPeriods, isStudyPath, openBaseline } from './compare.js';
 
 export const usage = `Usage: limit-ledger check STUDY NEWDATA --count COL [--units COL] [--label COL]
@@ -18,17 +18,7 @@ signal rules run over the new periods in order (the revision's rules unless --ru
   --json                  print one JSON object: the periods in the shape of analyze --json
 `;
 
-export async function run(argv: string[]): Promise<number> {
-  try {
-    return await check(argv);
-  } catch (error) {
-    if (error instanceof InputError) {
-      process.stderr.write(`limit-ledger check: ${error.message}\n`);
-      return 2;
-    }
-    throw error;
-  }
-}
+export const run = exitOnInputError('check', check);
 
 async function check(argv: string[]): Promise<number> {
   let parsed;

@@ -8,7 +8,7 @@ import { approvedBaseline, type ApprovedBaseline } from '../../../shared-core/ch
 import { importFile } from '../../services/import/import-file.js';
 import { openStudyFile } from '../../services/study-file.js';
 import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-flags.js';
-import { InputError } from '../input-error.js';
+import { exitOnInputError, InputError } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger compare BASE NEW --count COL [--units COL] [--label COL]
   [--confidence C] [--skip-invalid] [--json]
@@ -27,17 +27,7 @@ the included periods of its latest approved revision.
 /** Over-dispersion at this level in either sample makes the exact test optimistic. */
 const DISPERSION_LEVEL = 0.01;
 
-export async function run(argv: string[]): Promise<number> {
-  try {
-    return await compare(argv);
-  } catch (error) {
-    if (error instanceof InputError) {
-      process.stderr.write(`limit-ledger compare: ${error.message}\n`);
-      return 2;
-    }
-    throw error;
-  }
-}
+export const run = exitOnInputError('compare', compare);
 
 /**
  * The periods of a data file through the import module; invalid cells stop the command with every
