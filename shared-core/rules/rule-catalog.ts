@@ -1,4 +1,4 @@
-import type { RuleId } from '../study/analysis-types.js';
+import { ruleIdList, type RuleId } from '../study/analysis-types.js';
 import type { RulePoint } from './rule-point.js';
 import { alternateRule } from './alternate-rule.js';
 import { avoidRule } from './avoid-rule.js';
@@ -90,7 +90,7 @@ export const ruleCatalog: Record<RuleId, RuleDefinition> = {
   },
 };
 
-export const ruleIds = Object.keys(ruleCatalog) as RuleId[];
+export const ruleIds: RuleId[] = [...ruleIdList];
 
 /**
  * Reads a rule list such as `beyond,zone-a,run:9`; `run` alone means `run:8` and `all` every rule

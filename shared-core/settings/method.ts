@@ -4,19 +4,14 @@
  * `satisfies` clauses keep the two in step.
  */
 import { z } from 'zod';
-import type { AnalysisOptions, ChartKind, LimitsMethod, RuleId } from '../study/analysis-types.js';
+import {
+  ruleIdList,
+  type AnalysisOptions,
+  type ChartKind,
+  type LimitsMethod,
+} from '../study/analysis-types.js';
 
-export const ruleIds = [
-  'beyond',
-  'zone-a',
-  'zone-b',
-  'run:8',
-  'run:9',
-  'trend',
-  'alternate',
-  'hug',
-  'avoid',
-] as const satisfies readonly RuleId[];
+export const ruleIds = ruleIdList;
 
 export const RuleIdSchema = z.enum(ruleIds);
 export const LimitsMethodSchema = z.enum([

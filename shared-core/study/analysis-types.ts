@@ -41,8 +41,19 @@ export interface Exclusion {
 export type ChartKind = 'c' | 'u';
 export type LimitsMethod = 'sigma' | 'probability' | 'laney';
 
-export type RuleId =
-  'beyond' | 'zone-a' | 'zone-b' | 'run:8' | 'run:9' | 'trend' | 'alternate' | 'hug' | 'avoid';
+/** The signal rules of DESIGN.md's table, in its order. */
+export const ruleIdList = [
+  'beyond',
+  'zone-a',
+  'zone-b',
+  'run:8',
+  'run:9',
+  'trend',
+  'alternate',
+  'hug',
+  'avoid',
+] as const;
+export type RuleId = (typeof ruleIdList)[number];
 
 export interface AnalysisOptions {
   /** Requested chart; omitted means c when every k is equal, else u. `c` with varying k is an error. */

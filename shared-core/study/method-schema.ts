@@ -1,20 +1,9 @@
 import { z } from 'zod';
-import type { AnalysisOptions, RuleId } from './analysis-types.js';
+import { ruleIdList, type AnalysisOptions, type RuleId } from './analysis-types.js';
 
 /** The zod form of AnalysisOptions (analysis-types.ts): the method a study records and a revision signs. */
 
-const ruleIds = [
-  'beyond',
-  'zone-a',
-  'zone-b',
-  'run:8',
-  'run:9',
-  'trend',
-  'alternate',
-  'hug',
-  'avoid',
-] as const;
-export const ruleIdSchema = z.enum(ruleIds) satisfies z.ZodType<RuleId>;
+export const ruleIdSchema = z.enum(ruleIdList) satisfies z.ZodType<RuleId>;
 
 export const methodSchema = z.strictObject({
   chart: z.enum(['c', 'u']).optional(),
