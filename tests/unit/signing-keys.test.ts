@@ -1,5 +1,6 @@
 import { readFileSync, statSync, writeFileSync, openSync, closeSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
+import type { KeyObject } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { certificateFacts } from '../../src-main/services/signing/certificate-facts.js';
 import { keyIterations } from '../../src-main/services/signing/encrypted-pkcs8.js';
@@ -10,6 +11,7 @@ import {
   createPersonalIdentity,
   exportPkcs12,
   personalKeyFileText,
+  openPersonalKeyFile,
   readPersonalKeyFile,
 } from '../../src-main/services/signing/personal-certificate.js';
 import { readPkcs12 } from '../../src-main/services/signing/pkcs12-identity.js';
@@ -102,6 +104,16 @@ describe('personal signing certificates', () => {
     const back = readPersonalKeyFile(keyText, passphrase, 'me.key');
     expect(back.facts.fingerprint).toBe(personal.facts.fingerprint);
     expect(() => readPersonalKeyFile(keyText, 'nope', 'me.key')).toThrow(
+      /me\.key: the passphrase does not open/,
+    );
+  });
+
+  it('opens the key file off the main thread to the same key, and refuses a wrong passphrase there too', async () => {
+    const back = await openPersonalKeyFile(keyText, passphrase, 'me.key');
+    expect(back.facts.fingerprint).toBe(personal.facts.fingerprint);
+    const der = (key: KeyObject) => key.export({ type: 'pkcs8', format: 'der' });
+    expect(der(back.privateKey).equals(der(personal.privateKey))).toBe(true);
+    await expect(openPersonalKeyFile(keyText, 'nope', 'me.key')).rejects.toThrow(
       /me\.key: the passphrase does not open/,
     );
   });

@@ -61,9 +61,12 @@ async function packet(argv: string[]): Promise<number> {
   const paper = values.paper.toLowerCase();
   if (paper !== 'a4' && paper !== 'letter')
     throw new KeyError(`--paper must be a4 or letter, not "${values.paper}"`);
-  const identity = values.p12
-    ? await openSigningIdentity(values.p12, await passphraseFrom(values, `Passphrase for ${values.p12}: `))
+  // The key opens (600,000 PBKDF2 iterations, off the main thread) while the packet is drawn.
+  const opening = values.p12
+    ? openSigningIdentity(values.p12, await passphraseFrom(values, `Passphrase for ${values.p12}: `))
     : undefined;
+  opening?.catch(() => undefined); // awaited below; this only marks an early failure as handled
+  const identity = opening;
   const tty = process.stderr.isTTY;
   const made = await makePacket({
     studyPath,
@@ -84,11 +87,12 @@ async function packet(argv: string[]): Promise<number> {
     process.stderr.write(made.findings.map((f) => `limit-ledger packet: ${describeFinding(f)}\n`).join(''));
     return 2;
   }
+  const signer = identity ? await identity : undefined;
   process.stdout.write(
     [
       `wrote ${made.value.join(', ')}`,
-      identity
-        ? `  the PDF is signed by ${identity.facts.commonName}${identity.facts.selfIssued ? ' (self-issued certificate)' : ''}`
+      signer
+        ? `  the PDF is signed by ${signer.facts.commonName}${signer.facts.selfIssued ? ' (self-issued certificate)' : ''}`
         : '  the PDF is not signed (give --p12 to sign it)',
       '',
     ].join('\n'),

@@ -25,7 +25,8 @@ export interface PacketFiles {
 
 export interface PacketOptions {
   paper: Paper;
-  identity?: SigningIdentity;
+  /** The signing key, or the promise of it while it opens (drawing the packet need not wait). */
+  identity?: SigningIdentity | Promise<SigningIdentity>;
   onProgress?: (fraction: number, what: string) => void;
 }
 
@@ -64,7 +65,7 @@ export async function packetFiles(content: PacketContent, options: PacketOptions
   });
   if (options.identity) {
     progress(0.88, 'signature');
-    pdf = await signPdf(pdf, options.identity, {
+    pdf = await signPdf(pdf, await options.identity, {
       reason: `Approval packet, study ${content.studyId}, revision ${content.revision.number}`,
     });
   }

@@ -1,4 +1,11 @@
-import { createCipheriv, createPrivateKey, pbkdf2, randomBytes, type KeyObject } from 'node:crypto';
+import {
+  createCipheriv,
+  createDecipheriv,
+  createPrivateKey,
+  pbkdf2,
+  randomBytes,
+  type KeyObject,
+} from 'node:crypto';
 import { promisify } from 'node:util';
 import forge from 'node-forge';
 import { KeyError } from './signing-identity.js';
@@ -72,6 +79,61 @@ export function decryptPrivateKey(pem: string, passphrase: string, where = 'the 
     return createPrivateKey({ key: pem, format: 'pem', passphrase });
   } catch {
     throw new KeyError(`${where}: the passphrase does not open this key`);
+  }
+}
+
+/**
+ * Opens an encrypted PKCS#8 PEM as decryptPrivateKey does, but runs PBKDF2 in libuv's thread pool
+ * (for the PBES2 / PBKDF2-HMAC-SHA256 / AES-256-CBC structure this module writes; any other
+ * structure is opened by node:crypto directly).
+ */
+export async function decryptPrivateKeyInBackground(
+  pem: string,
+  passphrase: string,
+  where = 'the key file',
+): Promise<KeyObject> {
+  const parts = pbes2Parts(pem);
+  if (parts === null) return decryptPrivateKey(pem, passphrase, where);
+  const key = await promisify(pbkdf2)(
+    Buffer.from(passphrase, 'utf8'),
+    parts.salt,
+    parts.iterations,
+    32,
+    'sha256',
+  );
+  try {
+    const decipher = createDecipheriv('aes-256-cbc', key, parts.iv);
+    const der = Buffer.concat([decipher.update(parts.encrypted), decipher.final()]);
+    return createPrivateKey({ key: der, format: 'der', type: 'pkcs8' });
+  } catch {
+    throw new KeyError(`${where}: the passphrase does not open this key`);
+  }
+}
+
+/** Salt, iterations, IV and ciphertext of a PBES2 PEM this module wrote; null for anything else. */
+function pbes2Parts(pem: string): { salt: Buffer; iterations: number; iv: Buffer; encrypted: Buffer } | null {
+  try {
+    const children = (node: forge.asn1.Asn1) => node.value as forge.asn1.Asn1[];
+    const bytes = (node: forge.asn1.Asn1) => Buffer.from(node.value as string, 'binary');
+    const objectId = (node: forge.asn1.Asn1) => asn1.derToOid(node.value as string);
+    const info = asn1.fromDer(forge.pem.decode(pem)[0]!.body);
+    const [algorithm, encrypted] = children(info);
+    const [scheme, params] = children(algorithm!);
+    if (objectId(scheme!) !== oids.pbes2) return null;
+    const [kdf, cipher] = children(params!);
+    const [kdfId, kdfParams] = children(kdf!);
+    const [cipherId, iv] = children(cipher!);
+    if (objectId(kdfId!) !== oids.pbkdf2 || objectId(cipherId!) !== oids.aes256Cbc) return null;
+    const [salt, count, prf] = children(kdfParams!);
+    if (prf === undefined || objectId(children(prf)[0]!) !== oids.hmacWithSha256) return null;
+    return {
+      salt: bytes(salt!),
+      iterations: parseInt(forge.util.bytesToHex(count!.value as string), 16),
+      iv: bytes(iv!),
+      encrypted: bytes(encrypted!),
+    };
+  } catch {
+    return null;
   }
 }
 

@@ -1,6 +1,6 @@
 import { readFile } from 'node:fs/promises';
 import { basename } from 'node:path';
-import { readPersonalKeyFile } from './personal-certificate.js';
+import { openPersonalKeyFile } from './personal-certificate.js';
 import { readPkcs12 } from './pkcs12-identity.js';
 import type { SigningIdentity } from './signing-identity.js';
 
@@ -13,6 +13,6 @@ export async function openSigningIdentity(path: string, passphrase: string): Pro
   const name = basename(path);
   const looksLikePem = bytes.subarray(0, 64).toString('latin1').includes('-----BEGIN');
   return looksLikePem
-    ? readPersonalKeyFile(bytes.toString('utf8'), passphrase, name)
+    ? openPersonalKeyFile(bytes.toString('utf8'), passphrase, name)
     : readPkcs12(bytes, passphrase, name);
 }
