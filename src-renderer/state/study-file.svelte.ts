@@ -18,7 +18,6 @@ class StudyFile {
   status = $state('');
   error = $state('');
   readonly unsaved = $derived(study.document !== null && study.document !== this.saved);
-  #autosaveTimer: ReturnType<typeof setTimeout> | null = null;
 
   /** Called whenever a study is opened fresh (demo, import): it has no file yet. */
   opened(file: FileHandle | null): void {
@@ -82,18 +81,6 @@ class StudyFile {
       this.error = error instanceof ApiError ? error.message : messageOf(error);
       return false;
     }
-  }
-
-  /** After each decision: tell the host there are unsaved changes and leave it a recovery copy. */
-  scheduleAutosave(): void {
-    if (!this.unsaved) return;
-    if (this.#autosaveTimer) clearTimeout(this.#autosaveTimer);
-    const document = study.document;
-    this.#autosaveTimer = setTimeout(() => {
-      this.#autosaveTimer = null;
-      void api.setUnsaved({ unsaved: true }).catch(() => undefined);
-      void api.autosave({ document }).catch(() => undefined);
-    }, 800);
   }
 }
 
