@@ -24,7 +24,7 @@ import type { Result } from '../../shared-core/result.js';
 import type { JobRunner } from '../services/jobs/job-runner.js';
 import type { FileRegistry } from './file-registry.js';
 import { HostError } from './host-error.js';
-import type { RecoveryStore } from './recovery.js';
+import { recoveredOriginal, type RecoveryStore } from './recovery.js';
 
 /** How the host lets the user pick files: native dialogs in Electron, the workspace in the browser host. */
 export interface FilePicker {
@@ -179,7 +179,8 @@ export function createHandlers(context: HostContext): Handlers {
       const source = await files.read(file);
       const opened = await services.openStudy(source);
       if (!opened.ok) return opened;
-      currentStudyName = source.fileName;
+      const restored = recoveredOriginal(source.fileName);
+      currentStudyName = restored === undefined ? source.fileName : restored;
       const entry = files.get(file);
       const handle = entry.path !== null ? await files.issuePath(entry.path, 'study', true) : null;
       return { ok: true as const, value: withFile(opened.value, handle) };

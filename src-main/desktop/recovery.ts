@@ -12,6 +12,16 @@ export interface RecoveryEntry {
 }
 
 /**
+ * The study name a recovery copy was saved for (null when the study had no file yet), or undefined
+ * when the file is not a recovery copy: a restored copy keeps saving under the study's own name.
+ */
+export function recoveredOriginal(fileName: string): string | null | undefined {
+  if (!fileName.endsWith(suffix)) return undefined;
+  const stem = fileName.slice(0, -suffix.length).replace(/\.[0-9a-f]{12}$/, '');
+  return stem === 'untitled' ? null : `${stem}.ledger`;
+}
+
+/**
  * Autosave copies for crash recovery. Each run writes its own copy (named for the study and the
  * run) every time the renderer autosaves; a clean close removes it. Copies left by an earlier run
  * that did not close cleanly are offered on the next start.
@@ -42,12 +52,7 @@ export class RecoveryStore {
       const path = join(this.folder, name);
       const info = await stat(path).catch(() => null);
       if (!info) continue;
-      const stem = name.slice(0, -suffix.length).replace(/\.[0-9a-f]{12}$/, '');
-      entries.push({
-        path,
-        original: stem === 'untitled' ? null : `${stem}.ledger`,
-        savedAt: info.mtime.toISOString(),
-      });
+      entries.push({ path, original: recoveredOriginal(name) ?? null, savedAt: info.mtime.toISOString() });
     }
     return entries.sort((a, b) => b.savedAt.localeCompare(a.savedAt));
   }
