@@ -1,4 +1,3 @@
-import { parseArgs } from 'node:util';
 import { describeFinding } from '../../../shared-core/result.js';
 import type { AnalysisResult } from '../../../shared-core/study/analysis-types.js';
 import { iterationHistory, iterationSnapshot } from '../../../shared-core/study/iteration-history.js';
@@ -6,7 +5,7 @@ import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
 import { rejectionFinding, type ImportOutcome } from '../../../shared-core/import/import-report.js';
 import { importFile } from '../../services/import/import-file.js';
 import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-flags.js';
-import { exitOnInputError, InputError } from '../input-error.js';
+import { exitOnInputError, InputError, parseCommandArgs } from '../input-error.js';
 import { analysisOptions, exclusionFromFlag, exclusionsFromFile, methodFlags } from '../method-flags.js';
 import { analysisJson } from '../analysis-json.js';
 import { analysisTable } from '../analysis-table.js';
@@ -16,44 +15,37 @@ export const usage = `Usage: limit-ledger analyze FILE --count COL [--units COL]
   [--exclude LABEL=REASON]... [--exclusions FILE] [--rules LIST] [--skip-invalid] [--json] [--save STUDY]
 
   ${importFlagHelp.join('\n  ')}
-  --chart c|u         c needs the same units in every period (default: c when they are equal, else u)
-  --limits METHOD     sigma (default), probability (exact Poisson) or laney (u′)
-  --sigma L           the multiplier of sigma and Laney limits (default 3)
-  --alpha A           per-point false-alarm probability of probability limits (default 0.0027)
-  --fap F             Phase I false-alarm probability over the included periods instead of --alpha
-  --rate R            a known (standard) rate per inspection unit instead of the estimate
-  --exclude L=REASON  exclude period L (its label, or #ROW) with an assignable cause,
-                      REASON as "CATEGORY: description" or a description alone
-  --exclusions FILE   a table with columns label, category, description, reference
-  --rules LIST        signal rules: beyond (default), zone-a, zone-b, run (run:8), run:9, trend,
-                      alternate, hug, avoid, or all
-  --skip-invalid      analyze the valid rows and list each left-out row under "rejected"
-  --json              print one JSON object (the contract in DESIGN.md)
-  --save STUDY        also write the study (.ledger): the import, each exclusion and the iterations
+  --chart c|u             c needs the same units in every period (default: c when they are equal, else u)
+  --limits METHOD         sigma (default), probability (exact Poisson) or laney (u′)
+  --sigma L               the multiplier of sigma and Laney limits (default 3)
+  --alpha A               per-point false-alarm probability of probability limits (default 0.0027)
+  --fap F                 Phase I false-alarm probability over the included periods instead of --alpha
+  --rate R                a known (standard) rate per inspection unit instead of the estimate
+  --exclude L=REASON      exclude period L (its label, or #ROW) with an assignable cause,
+                          REASON as "CATEGORY: description" or a description alone
+  --exclusions FILE       a table with columns label, category, description, reference
+  --rules LIST            signal rules: beyond (default), zone-a, zone-b, run (run:8), run:9, trend,
+                          alternate, hug, avoid, or all
+  --skip-invalid          analyze the valid rows and list each left-out row under "rejected"
+  --json                  print one JSON object (the contract in DESIGN.md)
+  --save STUDY            also write the study (.ledger): the import, each exclusion and the iterations
 `;
 
 export const run = exitOnInputError('analyze', analyze);
 
 async function analyze(argv: string[]): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      strict: true,
-      options: {
-        ...importFlags,
-        ...methodFlags,
-        'skip-invalid': { type: 'boolean' },
-        json: { type: 'boolean' },
-        save: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    });
-  } catch (error) {
-    throw new InputError(`${(error as Error).message}\n\n${usage}`);
-  }
-  const { values, positionals } = parsed;
+  const { values, positionals } = parseCommandArgs(
+    argv,
+    {
+      ...importFlags,
+      ...methodFlags,
+      'skip-invalid': { type: 'boolean' },
+      json: { type: 'boolean' },
+      save: { type: 'string' },
+      help: { type: 'boolean', short: 'h' },
+    },
+    usage,
+  );
   if (values.help) {
     process.stdout.write(usage);
     return 0;

@@ -1,4 +1,3 @@
-import { parseArgs } from 'node:util';
 import { describeFinding } from '../../../shared-core/result.js';
 import type { AnalysisResult, RuleId } from '../../../shared-core/study/analysis-types.js';
 import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
@@ -9,7 +8,7 @@ import {
   typicalUnits,
 } from '../../../shared-core/changes/average-run-length.js';
 import { importFlagHelp, importFlags } from '../import-flags.js';
-import { exitOnInputError, InputError } from '../input-error.js';
+import { exitOnInputError, InputError, parseCommandArgs } from '../input-error.js';
 import { analysisOptions, exclusionFromFlag, exclusionsFromFile, methodFlags } from '../method-flags.js';
 import { importPeriods, isStudyPath, openBaseline } from './compare.js';
 
@@ -67,26 +66,19 @@ export function parseShifts(text: string): number[] {
 }
 
 async function arl(argv: string[]): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      strict: true,
-      options: {
-        ...importFlags,
-        ...methodFlags,
-        shifts: { type: 'string' },
-        'at-units': { type: 'string' },
-        'skip-invalid': { type: 'boolean' },
-        json: { type: 'boolean' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    });
-  } catch (error) {
-    throw new InputError(`${(error as Error).message}\n\n${usage}`);
-  }
-  const { values, positionals } = parsed;
+  const { values, positionals } = parseCommandArgs(
+    argv,
+    {
+      ...importFlags,
+      ...methodFlags,
+      shifts: { type: 'string' },
+      'at-units': { type: 'string' },
+      'skip-invalid': { type: 'boolean' },
+      json: { type: 'boolean' },
+      help: { type: 'boolean', short: 'h' },
+    },
+    usage,
+  );
   if (values.help) {
     process.stdout.write(usage);
     return 0;

@@ -1,8 +1,7 @@
-import { parseArgs } from 'node:util';
 import { parseRuleList } from '../../../shared-core/rules/rule-catalog.js';
 import { checkNewPeriods } from '../../../shared-core/changes/new-periods-check.js';
 import { importFlagHelp, importFlags } from '../import-flags.js';
-import { exitOnInputError, InputError } from '../input-error.js';
+import { exitOnInputError, InputError, parseCommandArgs } from '../input-error.js';
 import { importPeriods, isStudyPath, openBaseline } from './compare.js';
 
 export const usage = `Usage: limit-ledger check STUDY NEWDATA --count COL [--units COL] [--label COL]
@@ -21,24 +20,17 @@ signal rules run over the new periods in order (the revision's rules unless --ru
 export const run = exitOnInputError('check', check);
 
 async function check(argv: string[]): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      strict: true,
-      options: {
-        ...importFlags,
-        rules: { type: 'string' },
-        'skip-invalid': { type: 'boolean' },
-        json: { type: 'boolean' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    });
-  } catch (error) {
-    throw new InputError(`${(error as Error).message}\n\n${usage}`);
-  }
-  const { values, positionals } = parsed;
+  const { values, positionals } = parseCommandArgs(
+    argv,
+    {
+      ...importFlags,
+      rules: { type: 'string' },
+      'skip-invalid': { type: 'boolean' },
+      json: { type: 'boolean' },
+      help: { type: 'boolean', short: 'h' },
+    },
+    usage,
+  );
   if (values.help) {
     process.stdout.write(usage);
     return 0;

@@ -1,4 +1,3 @@
-import { parseArgs } from 'node:util';
 import { describeFinding } from '../../../shared-core/result.js';
 import type { ImportOutcome } from '../../../shared-core/import/import-report.js';
 import type { Observation, Warning } from '../../../shared-core/study/analysis-types.js';
@@ -8,7 +7,7 @@ import { approvedBaseline, type ApprovedBaseline } from '../../../shared-core/ch
 import { importFile } from '../../services/import/import-file.js';
 import { openStudyFile } from '../../services/study-file.js';
 import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-flags.js';
-import { exitOnInputError, InputError } from '../input-error.js';
+import { exitOnInputError, InputError, parseCommandArgs } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger compare BASE NEW --count COL [--units COL] [--label COL]
   [--confidence C] [--skip-invalid] [--json]
@@ -120,24 +119,17 @@ function baselineSample(file: string, baseline: ApprovedBaseline): ReturnType<ty
 }
 
 async function compare(argv: string[]): Promise<number> {
-  let parsed;
-  try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      strict: true,
-      options: {
-        ...importFlags,
-        confidence: { type: 'string' },
-        'skip-invalid': { type: 'boolean' },
-        json: { type: 'boolean' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    });
-  } catch (error) {
-    throw new InputError(`${(error as Error).message}\n\n${usage}`);
-  }
-  const { values, positionals } = parsed;
+  const { values, positionals } = parseCommandArgs(
+    argv,
+    {
+      ...importFlags,
+      confidence: { type: 'string' },
+      'skip-invalid': { type: 'boolean' },
+      json: { type: 'boolean' },
+      help: { type: 'boolean', short: 'h' },
+    },
+    usage,
+  );
   if (values.help) {
     process.stdout.write(usage);
     return 0;

@@ -7,9 +7,11 @@ import {
   keyUsage,
   passphraseFrom,
   refuseCommandLinePassphrase,
+  keyOrUsageError,
 } from '../../services/signing/key-flags.js';
 import { openSigningIdentity } from '../../services/signing/key-source.js';
 import { KeyError } from '../../services/signing/signing-identity.js';
+import { exitOnInputError } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger countersign PACKET.pdf --p12 FILE [--passphrase-env VAR] [--reason TEXT] [--out FILE]
 
@@ -21,17 +23,7 @@ ${keyUsage}
   --out FILE             write the countersigned packet here (default: replace PACKET.pdf)
 `;
 
-export async function run(argv: string[]): Promise<number> {
-  try {
-    return await countersign(argv);
-  } catch (error) {
-    if (error instanceof KeyError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS')) {
-      process.stderr.write(`limit-ledger countersign: ${(error as Error).message}\n`);
-      return 2;
-    }
-    throw error;
-  }
-}
+export const run = exitOnInputError('countersign', countersign, keyOrUsageError);
 
 async function countersign(argv: string[]): Promise<number> {
   refuseCommandLinePassphrase(argv);

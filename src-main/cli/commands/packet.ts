@@ -7,9 +7,11 @@ import {
   keyUsage,
   passphraseFrom,
   refuseCommandLinePassphrase,
+  keyOrUsageError,
 } from '../../services/signing/key-flags.js';
 import { openSigningIdentity } from '../../services/signing/key-source.js';
 import { KeyError } from '../../services/signing/signing-identity.js';
+import { exitOnInputError } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger packet STUDY --pdf OUT.pdf --xlsx OUT.xlsx [--p12 FILE --passphrase-env VAR]
        [--paper a4|letter]
@@ -25,17 +27,7 @@ export const usage = `Usage: limit-ledger packet STUDY --pdf OUT.pdf --xlsx OUT.
 ${keyUsage}
 `;
 
-export async function run(argv: string[]): Promise<number> {
-  try {
-    return await packet(argv);
-  } catch (error) {
-    if (error instanceof KeyError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS')) {
-      process.stderr.write(`limit-ledger packet: ${(error as Error).message}\n`);
-      return 2;
-    }
-    throw error;
-  }
-}
+export const run = exitOnInputError('packet', packet, keyOrUsageError);
 
 async function packet(argv: string[]): Promise<number> {
   refuseCommandLinePassphrase(argv);

@@ -8,6 +8,7 @@ import {
   keyUsage,
   passphraseFrom,
   refuseCommandLinePassphrase,
+  keyOrUsageError,
 } from '../../services/signing/key-flags.js';
 import { openSigningIdentity } from '../../services/signing/key-source.js';
 import { writeOwnerOnly } from '../../services/signing/key-file.js';
@@ -18,6 +19,7 @@ import {
 } from '../../services/signing/personal-certificate.js';
 import { addSignOff } from '../../services/signing/sign-off.js';
 import { KeyError } from '../../services/signing/signing-identity.js';
+import { exitOnInputError } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger sign STUDY --p12 FILE --signer NAME --role ROLE
          --meaning prepared|reviewed|approved [--effective DATE --review DATE --reaction-plan TEXT]
@@ -42,17 +44,7 @@ ${keyUsage}
 
 const isoDate = /^\d{4}-\d{2}-\d{2}$/;
 
-export async function run(argv: string[]): Promise<number> {
-  try {
-    return await sign(argv);
-  } catch (error) {
-    if (error instanceof KeyError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS')) {
-      process.stderr.write(`limit-ledger sign: ${(error as Error).message}\n`);
-      return 2;
-    }
-    throw error;
-  }
-}
+export const run = exitOnInputError('sign', sign, keyOrUsageError);
 
 async function sign(argv: string[]): Promise<number> {
   refuseCommandLinePassphrase(argv);

@@ -1,6 +1,10 @@
 import { readPassphrase, type PassphraseSource } from './passphrase.js';
 import { KeyError } from './signing-identity.js';
 
+/** What a signing command reports as bad input (exit status 2): a key problem or a malformed flag. */
+export const keyOrUsageError = (error: unknown): boolean =>
+  error instanceof KeyError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS') === true;
+
 /** The command-line options every signing command shares (node:util parseArgs form). */
 export const keyOptions = {
   p12: { type: 'string' },
