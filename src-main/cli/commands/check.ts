@@ -1,6 +1,7 @@
 import { parseRuleList } from '../../../shared-core/rules/rule-catalog.js';
 import { checkNewPeriods } from '../../../shared-core/changes/new-periods-check.js';
 import { importFlagHelp, importFlags } from '../import-flags.js';
+import { periodJson } from '../analysis-json.js';
 import { exitOnInputError, InputError, parseCommandArgs } from '../input-error.js';
 import { importPeriods, isStudyPath, openBaseline } from './compare.js';
 
@@ -60,19 +61,7 @@ async function check(argv: string[]): Promise<number> {
       rate: approved.rate,
       sigmaZ: approved.sigmaZ,
       rules,
-      periods: periods.map((p) => ({
-        label: p.label,
-        row: p.row,
-        ...(p.rows ? { rows: p.rows } : {}),
-        count: p.count,
-        units: p.units,
-        rate: p.rate,
-        lcl: p.lcl,
-        ucl: p.ucl,
-        z: p.z,
-        status: p.status,
-        rules: p.rules,
-      })),
+      periods: periods.map(periodJson),
       signals: signals.map((p) => p.label),
       warnings: outcome.report.warnings.map((w) => ({ code: w.code, message: w.message })),
       rejected: outcome.rejected,
