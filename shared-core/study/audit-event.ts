@@ -75,6 +75,31 @@ export const auditEventSchema = z.discriminatedUnion('type', [
       value: z.union([z.number(), z.string()]),
     }),
   }),
+  /** The history starts a new segment with its own limits at period `index` (a known process change). */
+  z.strictObject({
+    ...envelope,
+    type: z.literal('split-added'),
+    why: z.string().trim().min(1, 'a new segment needs the reason the process changed'),
+    payload: z.strictObject({ index: indexSchema.min(1), label: z.string() }),
+  }),
+  z.strictObject({
+    ...envelope,
+    type: z.literal('split-removed'),
+    payload: z.strictObject({ index: indexSchema.min(1), label: z.string() }),
+  }),
+  /** New periods appended after the history: binds their source and the appended observations. */
+  z.strictObject({
+    ...envelope,
+    type: z.literal('periods-added'),
+    payload: z.strictObject({
+      file: z.string(),
+      sourceSha256: sha256HexSchema,
+      firstIndex: indexSchema,
+      observationCount: z.number().int().positive(),
+      /** SHA-256 of the canonical JSON of the appended observations only. */
+      observationsSha256: sha256HexSchema,
+    }),
+  }),
   z.strictObject({
     ...envelope,
     type: z.literal('method-changed'),
@@ -130,7 +155,15 @@ type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K>
 export type EventDraft = DistributiveOmit<AuditEvent, 'seq' | 'time' | 'clock' | 'prev' | 'hash'>;
 
 /** Decisions that undo and redo act on. */
-export const undoableTypes = ['excluded', 'reinstated', 'corrected', 'method-changed', 'note-added'] as const;
+export const undoableTypes = [
+  'excluded',
+  'reinstated',
+  'corrected',
+  'method-changed',
+  'note-added',
+  'split-added',
+  'split-removed',
+] as const;
 export type UndoableEvent = EventOf<(typeof undoableTypes)[number]>;
 
 export function isUndoable(event: AuditEvent): event is UndoableEvent {

@@ -32,12 +32,33 @@ export const revisionLimitsSchema = z.strictObject({
 
 export const revisionStatusSchema = z.enum(['draft', 'approved', 'void']);
 
+/** Why limits that were approved are being changed (the four reasons a change may have). */
+export const reasonCategorySchema = z.enum([
+  'process-change',
+  'trial-limits-ended',
+  'special-cause',
+  'customer-request',
+]);
+
+/** Each reason for a change in words, in the order a form offers them. */
+export const reasonForChangeList: readonly { id: ReasonCategory; words: string }[] = [
+  { id: 'process-change', words: 'The process changed (equipment, material, method or site)' },
+  { id: 'trial-limits-ended', words: 'The trial limits ended: enough production to set standing limits' },
+  { id: 'special-cause', words: 'The approved limits were distorted by a special cause' },
+  { id: 'customer-request', words: 'The customer asked for the limits to be revised' },
+];
+
 export const revisionSchema = z.looseObject({
   id: z.string().min(1),
   /** 1, 2, 3… in the order revisions were drafted. */
   number: z.number().int().positive(),
   status: revisionStatusSchema,
   reasonForChange: z.string().optional(),
+  reasonCategory: reasonCategorySchema.optional(),
+  /** First period (index) the revision's own study covers; absent means the first of the history. */
+  segmentStart: z.number().int().nonnegative().optional(),
+  /** The approved revision this one would replace: a limit change. */
+  supersedes: z.string().min(1).optional(),
   method: methodSchema,
   /** On the plotted scale: ū for a u chart, ū·k for a c chart. */
   center: z.number(),
@@ -57,3 +78,4 @@ export type SignOff = z.infer<typeof signOffSchema>;
 export type RevisionLimits = z.infer<typeof revisionLimitsSchema>;
 export type RevisionStatus = z.infer<typeof revisionStatusSchema>;
 export type Revision = z.infer<typeof revisionSchema>;
+export type ReasonCategory = z.infer<typeof reasonCategorySchema>;

@@ -12,6 +12,8 @@ import type {
 } from './analysis-types.js';
 import type { Study } from './study-schema.js';
 import type { StudyProblem } from './study-problem.js';
+import type { Split } from './segments.js';
+import { observationsHash } from './new-study.js';
 
 /**
  * The study as its decisions leave it: the audit chain folded, undo and redo applied.
@@ -50,6 +52,8 @@ export interface StudyState {
   corrections: Correction[];
   method: AnalysisOptions;
   notes: StudyNote[];
+  /** Where the history starts a new segment with its own limits, by index. */
+  splits: Split[];
   /** Seqs of the undoable decisions in force, oldest first: the undo stack. */
   decisionsInForce: number[];
   /** Seq of the decision `undo` would take back, or null. */
@@ -64,6 +68,7 @@ export interface StudyState {
 export function deriveState(study: Study, throughHash?: string): StudyState {
   const problems: StudyProblem[] = [];
   const events = prefix(study.events, throughHash);
+  const known = periodsKnown(events, study.observations.length);
   const bySeq = new Map(events.map((event) => [event.seq, event]));
   const inForce: number[] = [];
   const undone: number[] = [];
@@ -100,8 +105,9 @@ export function deriveState(study: Study, throughHash?: string): StudyState {
   }
 
   // Copied only where a correction applies: the study's own observations stay the originals.
-  const observations = study.observations.slice();
+  const observations = study.observations.slice(0, known);
   const excluded = new Map<number, AssignableCause>();
+  const splits = new Map<number, Split>();
   const corrections: Correction[] = [];
   const notes: StudyNote[] = [];
   for (const seq of inForce) {
@@ -115,7 +121,10 @@ export function deriveState(study: Study, throughHash?: string): StudyState {
       problems.push(invalid(event, `names period ${index + 1}, but the study has ${observations.length}`));
       continue;
     }
-    if (event.type === 'excluded') excluded.set(index, event.payload.cause);
+    if (event.type === 'split-added')
+      splits.set(index, { index, label: event.payload.label, reason: event.why, seq: event.seq });
+    else if (event.type === 'split-removed') splits.delete(index);
+    else if (event.type === 'excluded') excluded.set(index, event.payload.cause);
     else if (event.type === 'reinstated') excluded.delete(index);
     else if (event.type === 'note-added')
       notes.push({ ...pick(event), index, label: event.payload.label, text: event.payload.text });
@@ -132,11 +141,23 @@ export function deriveState(study: Study, throughHash?: string): StudyState {
     corrections,
     method,
     notes,
+    splits: [...splits.values()].sort((a, b) => a.index - b.index),
     decisionsInForce: inForce,
     undoable: inForce.at(-1) ?? null,
     redoable: undone.at(-1) ?? null,
     problems,
   };
+}
+
+/** How many periods the chain had seen by its last event: the import, then any periods added. */
+function periodsKnown(events: AuditEvent[], stored: number): number {
+  let known: number | null = null;
+  for (const event of events) {
+    if (event.type === 'imported') known = event.payload.observationCount;
+    else if (event.type === 'periods-added')
+      known = event.payload.firstIndex + event.payload.observationCount;
+  }
+  return Math.min(known ?? stored, stored);
 }
 
 function prefix(events: AuditEvent[], throughHash: string | undefined): AuditEvent[] {
@@ -326,6 +347,97 @@ export function recordIteration(
     { type: 'iteration', who: input.who, payload: { number, excluded, center, lcl, ucl, signals } },
     now,
   );
+}
+
+/**
+ * Starts a new segment at period `index`: a known process change after which the history gets limits
+ * of its own. The reason is required; the first period cannot start a segment (it already does).
+ */
+export function splitAt(
+  study: Study,
+  input: { who: string; why: string; index: number },
+  now: string,
+): Result<Study> {
+  const found = period(study, input.index);
+  if (!found.ok) return found;
+  if (input.index === 0)
+    return fail({ message: 'the first period already starts the history; choose a later period' });
+  if (!input.why.trim())
+    return fail({ column: 'reason', message: 'a new segment needs the reason the process changed' });
+  if (deriveState(study).splits.some((split) => split.index === input.index))
+    return fail({ message: `a segment already starts at period ${found.value.label}` });
+  return ok(
+    record(
+      study,
+      {
+        type: 'split-added',
+        who: input.who,
+        why: input.why.trim(),
+        payload: { index: input.index, label: found.value.label },
+      },
+      now,
+    ),
+  );
+}
+
+/** Joins the segment starting at period `index` to the one before it. */
+export function removeSplit(study: Study, input: Actor & { index: number }, now: string): Result<Study> {
+  const found = period(study, input.index);
+  if (!found.ok) return found;
+  if (!deriveState(study).splits.some((split) => split.index === input.index))
+    return fail({ message: `no segment starts at period ${found.value.label}` });
+  return ok(
+    record(
+      study,
+      {
+        type: 'split-removed',
+        who: input.who,
+        why: input.why,
+        payload: { index: input.index, label: found.value.label },
+      },
+      now,
+    ),
+  );
+}
+
+/**
+ * Appends new periods after the history (e.g. production since the limits were approved). The
+ * event binds their source file's hash and the appended observations, so a revision anchored
+ * before it keeps exactly the periods it was computed on.
+ */
+export function addPeriods(
+  study: Study,
+  input: { who: string; file: string; sourceSha256: string; observations: Observation[] },
+  now: string,
+): Result<Study> {
+  if (input.observations.length === 0) return fail({ message: 'there are no new periods to add' });
+  const known = new Set(study.observations.map((o) => o.label));
+  const repeated = input.observations.find((o) => o.label && !o.label.startsWith('#') && known.has(o.label));
+  if (repeated)
+    return fail({
+      row: repeated.row,
+      column: 'label',
+      value: repeated.label,
+      message: `period ${repeated.label} is already in the study: add only periods after the history`,
+    });
+  const firstIndex = study.observations.length;
+  const observations = [...study.observations, ...input.observations];
+  const appended = appendEvent(
+    { ...study, observations },
+    {
+      type: 'periods-added',
+      who: input.who,
+      payload: {
+        file: input.file,
+        sourceSha256: input.sourceSha256,
+        firstIndex,
+        observationCount: input.observations.length,
+        observationsSha256: observationsHash(input.observations),
+      },
+    },
+    now,
+  );
+  return ok(appended);
 }
 
 /** The decisions undo would take back, latest first (what an undo menu lists). */

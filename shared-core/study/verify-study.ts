@@ -33,9 +33,11 @@ export function verifyStudy(study: Study): StudyProblem[] {
     problems.push(error('import-mismatch', null, 'no import event records where the observations came from'));
   } else {
     const { payload, seq } = imported;
+    const added = study.events.filter((e): e is EventOf<'periods-added'> => e.type === 'periods-added');
+    const expected = added.reduce((n, e) => n + e.payload.observationCount, payload.observationCount);
     if (
-      payload.observationCount !== study.observations.length ||
-      payload.observationsSha256 !== observationsHash(study.observations)
+      expected !== study.observations.length ||
+      payload.observationsSha256 !== observationsHash(study.observations.slice(0, payload.observationCount))
     ) {
       problems.push(
         error(
@@ -44,6 +46,20 @@ export function verifyStudy(study: Study): StudyProblem[] {
           `the observations differ from those imported in event ${seq}: they were changed outside the program`,
         ),
       );
+    }
+    let next = payload.observationCount;
+    for (const event of added) {
+      const { firstIndex, observationCount, observationsSha256 } = event.payload;
+      const slice = study.observations.slice(firstIndex, firstIndex + observationCount);
+      if (firstIndex !== next || observationsHash(slice) !== observationsSha256)
+        problems.push(
+          error(
+            'import-mismatch',
+            event.seq,
+            `the periods added in event ${event.seq} differ from those it recorded: they were changed outside the program`,
+          ),
+        );
+      next = firstIndex + observationCount;
     }
     if (payload.sourceSha256 !== study.source.sha256 || payload.file !== study.source.file) {
       problems.push(

@@ -1,6 +1,5 @@
 import { createPublicKey, sign as rsaSign, verify as rsaVerify, X509Certificate } from 'node:crypto';
 import { appendEvent, chainHead, sealStudy } from '../../../shared-core/study/audit-chain.js';
-import { analyzePhaseOne } from '../../../shared-core/study/phase-one.js';
 import type { Revision, SignOff, SignOffMeaning } from '../../../shared-core/study/revision-schema.js';
 import { signOffBytes } from '../../../shared-core/study/signed-content.js';
 import {
@@ -13,7 +12,8 @@ import type { Study } from '../../../shared-core/study/study-schema.js';
 import { SiteSettingsSchema, defaultSiteSettings } from '../../../shared-core/settings/site-settings.js';
 import { fail, ok, type Result } from '../../../shared-core/result.js';
 import type { AnalysisResult } from '../../../shared-core/study/analysis-types.js';
-import { limitsTable } from '../packet/limits-table.js';
+import { limitsTable } from '../../../shared-core/study/revision-limits.js';
+import { currentAnalysis, revisionAnalysis, type Scope } from '../../../shared-core/study/revision-scope.js';
 import type { SignOffLine } from '../packet/packet-content.js';
 import { certificateFacts } from './certificate-facts.js';
 import type { SigningIdentity } from './signing-identity.js';
@@ -45,21 +45,13 @@ export function signOffRule(study: Study): SignOffRule {
   return (parsed.success ? parsed.data : defaultSiteSettings).signOff;
 }
 
-/** The analysis a revision stands for: the study's decisions up to its anchor, with its method. */
-export function revisionAnalysis(study: Study, revision: Revision): Result<AnalysisResult> {
-  const state = deriveState(study, revision.chainHead);
-  return analyzePhaseOne(state.observations, state.exclusions, revision.method);
-}
-
-function currentAnalysis(study: Study): Result<AnalysisResult> {
-  const state = deriveState(study);
-  return analyzePhaseOne(state.observations, state.exclusions, state.method);
-}
+export { revisionAnalysis };
 
 /** Whether a revision still describes the study as its decisions now stand. */
-function describesNow(revision: Revision, result: AnalysisResult, study: Study): boolean {
+function describesNow(revision: Revision, result: AnalysisResult & { scope: Scope }, study: Study): boolean {
   const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
   return (
+    (revision.segmentStart ?? 0) === result.scope.start &&
     same(revision.method, deriveState(study).method) &&
     revision.center === result.center &&
     same(revision.limits, limitsTable(result)) &&
@@ -97,8 +89,10 @@ export function addSignOff(
     ...(request.reactionPlan ? { reactionPlan: request.reactionPlan } : {}),
   };
 
+  let carried: ChangeFields = {};
   if (revision && !describesNow(revision, analysis.value, current)) {
     if (revision.signOffs.length > 0) {
+      carried = changeFields(revision);
       current = replaceRevision(current, { ...revision, status: 'void' });
       current = appendEvent(
         current,
@@ -158,6 +152,13 @@ export function addSignOff(
         message: `revision ${approved.number} is approved and describes the study as it stands; an approved revision cannot be signed again or edited`,
       });
     }
+    const standing = current.revisions.filter((r) => r.status === 'approved');
+    if (standing.length > 0 && !carried.supersedes) {
+      const latest = standing.reduce((a, b) => (b.number > a.number ? b : a));
+      return fail({
+        message: `revision ${latest.number} is approved; changing its limits needs a proposed change with its reason first (the Changes screen, or proposeChange), then this sign-off`,
+      });
+    }
     const number = current.revisions.reduce((max, r) => Math.max(max, r.number), 0) + 1;
     const id = `rev-${number}`;
     current = appendEvent(
@@ -177,6 +178,7 @@ export function addSignOff(
         excluded: [],
         chainHead: chainHead(current),
         signOffs: [],
+        ...carried,
       },
       analysis.value,
       current,
@@ -234,10 +236,30 @@ export function addSignOff(
   return ok({ study: current, revision, notes });
 }
 
-function redraft(revision: Revision, result: AnalysisResult, study: Study, fields: RevisionFields): Revision {
+type ChangeFields = Pick<Revision, 'reasonCategory' | 'reasonForChange' | 'supersedes'>;
+
+/** What makes a revision a limit change: kept when a voided draft is drafted again. */
+function changeFields(revision: Revision): ChangeFields {
+  const { reasonCategory, reasonForChange, supersedes } = revision;
+  return {
+    ...(reasonCategory ? { reasonCategory } : {}),
+    ...(reasonForChange ? { reasonForChange } : {}),
+    ...(supersedes ? { supersedes } : {}),
+  };
+}
+
+function redraft(
+  revision: Revision,
+  result: AnalysisResult & { scope: Scope },
+  study: Study,
+  fields: RevisionFields,
+): Revision {
   return {
     ...revision,
     ...fields,
+    ...(result.scope.start > 0 || revision.segmentStart !== undefined
+      ? { segmentStart: result.scope.start }
+      : {}),
     method: deriveState(study).method,
     center: result.center,
     limits: limitsTable(result),
