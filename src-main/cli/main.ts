@@ -45,6 +45,10 @@ export const commands: Record<string, Command> = {
     summary: 'judge new periods against the approved limits of a study, without recomputing',
     load: () => import('./commands/check.js'),
   },
+  propose: {
+    summary: 'propose a change of a study’s approved limits: add new periods, reason, draft revision',
+    load: () => import('./commands/propose.js'),
+  },
 };
 
 export function helpText(): string {
