@@ -1,32 +1,20 @@
 /**
- * Schemas of the analysis method (chart, limits, multiplier, α, rules), shared by the channel table
- * and the site settings. They mirror the types of shared-core/study/analysis-types.ts; the
- * `satisfies` clauses keep the two in step.
+ * The analysis method as the channel table and the site settings accept it: the study's method
+ * schema (study/method-schema.ts) with the caps an interactive request must keep (a multiplier
+ * of at most 10, a finite known rate, each rule at most once).
  */
 import { z } from 'zod';
-import {
-  ruleIdList,
-  type AnalysisOptions,
-  type ChartKind,
-  type LimitsMethod,
-} from '../study/analysis-types.js';
+import { ruleIdList, type AnalysisOptions } from '../study/analysis-types.js';
+import { chartKindSchema, limitsMethodSchema, methodSchema, ruleIdSchema } from '../study/method-schema.js';
 
 export const ruleIds = ruleIdList;
 
-export const RuleIdSchema = z.enum(ruleIds);
-export const LimitsMethodSchema = z.enum([
-  'sigma',
-  'probability',
-  'laney',
-] as const satisfies readonly LimitsMethod[]);
-export const ChartKindSchema = z.enum(['c', 'u'] as const satisfies readonly ChartKind[]);
+export const RuleIdSchema = ruleIdSchema;
+export const LimitsMethodSchema = limitsMethodSchema;
+export const ChartKindSchema = chartKindSchema;
 
-export const AnalysisOptionsSchema = z.object({
-  chart: ChartKindSchema.optional(),
-  limits: LimitsMethodSchema,
+export const AnalysisOptionsSchema = methodSchema.extend({
   multiplier: z.number().positive().max(10),
-  alpha: z.number().gt(0).lt(1),
-  fap: z.number().gt(0).lt(1).optional(),
   knownRate: z.number().positive().finite().optional(),
   rules: z.array(RuleIdSchema).max(ruleIds.length),
 });
