@@ -1,6 +1,7 @@
 import Papa from 'papaparse';
 import { api, ApiError } from '../transport/index.js';
 import type { FileHandle } from '../../shared-core/api.js';
+import type { Observation } from '../../shared-core/study/analysis-types.js';
 import type { Finding } from '../../shared-core/result.js';
 import { describeFinding } from '../../shared-core/result.js';
 import { study } from './study.svelte.js';
@@ -44,8 +45,35 @@ function guess(columns: string[], ...patterns: RegExp[]): string {
   return '';
 }
 
-/** The Data screen's import: choose or paste, map the columns, import with progress, read the report. */
-class DataImport {
+/** What an import hands over: the observations read, with the file's name, hash, settings and report. */
+export interface ImportedData {
+  title: string;
+  unit: string;
+  file: string;
+  sha256: string;
+  observations: Observation[];
+  importSettings: Record<string, unknown>;
+  importReport: Record<string, unknown>;
+}
+
+/** The Data screen's destination: the import becomes a new study. */
+function openAsNewStudy(imported: ImportedData): Finding[] {
+  study.loadImport(imported);
+  studyFile.opened(null);
+  return [];
+}
+
+/**
+ * An import: choose or paste, map the columns, import with progress, read the report. The Data
+ * screen's opens a new study; another screen may deliver the periods elsewhere (the Changes screen
+ * appends them to the open study), and the problems `deliver` returns are reported as the import's.
+ */
+export class DataImport {
+  readonly deliver: (imported: ImportedData) => Finding[];
+  constructor(deliver: (imported: ImportedData) => Finding[] = openAsNewStudy) {
+    this.deliver = deliver;
+  }
+
   step = $state<'choose' | 'map' | 'importing' | 'done'>('choose');
   file = $state.raw<FileHandle | null>(null);
   columns = $state.raw<string[]>([]);
@@ -203,7 +231,7 @@ class DataImport {
         }));
         this.noProduction = outcome.value.noProduction.length;
         if (observations.length > 0) {
-          study.loadImport({
+          const problems = this.deliver({
             title: this.file.fileName.replace(/\.[^.]+$/, ''),
             unit: m.unitName || 'inspection unit',
             file: this.file.fileName,
@@ -212,8 +240,8 @@ class DataImport {
             importSettings: mapping,
             importReport: report,
           });
-          studyFile.opened(null);
-          this.imported = true;
+          if (problems.length > 0) this.report = [...problems, ...this.report];
+          this.imported = problems.length === 0;
         }
       }
       this.step = 'done';

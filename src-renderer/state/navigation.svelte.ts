@@ -4,6 +4,7 @@ export const screens = [
   { id: 'checks', name: 'Checks', key: '3' },
   { id: 'signoff', name: 'Sign-off', key: '4' },
   { id: 'history', name: 'History', key: '5' },
+  { id: 'changes', name: 'Changes', key: '6' },
 ] as const;
 
 export type ScreenId = (typeof screens)[number]['id'];
@@ -21,7 +22,7 @@ export const navigation = new Navigation();
 
 /** The keyboard shortcuts, as listed in the app. */
 export const shortcuts: { keys: string; does: string }[] = [
-  { keys: 'Alt+1 … Alt+5', does: 'Go to Data, Review, Checks, Sign-off, History' },
+  { keys: 'Alt+1 … Alt+6', does: 'Go to Data, Review, Checks, Sign-off, History, Changes' },
   { keys: 'Ctrl+S / Ctrl+Shift+S', does: 'Save the study / save it under a new name' },
   { keys: 'Ctrl+Z', does: 'Undo the last decision' },
   { keys: 'Ctrl+Shift+Z or Ctrl+Y', does: 'Redo' },
