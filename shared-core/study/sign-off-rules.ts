@@ -12,13 +12,13 @@ export interface SignOffRule {
 
 /**
  * Why a new sign-off may not be added, or null when it may: each meaning once, in order (every
- * required meaning before this one must be there already), and a different key for each meaning
- * when the site requires separate people.
+ * required meaning before this one must be there already), and a different key and printed name
+ * for each meaning when the site requires separate people.
  */
 export function signOffRefusal(
   rule: SignOffRule,
   earlier: readonly Pick<SignOff, 'meaning' | 'fingerprint' | 'printedName'>[],
-  next: { meaning: SignOffMeaning; fingerprint: string },
+  next: { meaning: SignOffMeaning; fingerprint: string; printedName?: string },
 ): string | null {
   if (earlier.some((s) => s.meaning === next.meaning)) {
     return `this revision already has a "${next.meaning}" sign-off`;
@@ -33,6 +33,12 @@ export function signOffRefusal(
   const sameKey = earlier.find((s) => s.fingerprint === next.fingerprint);
   if (rule.separatePeople && sameKey) {
     return `this key already signed as "${sameKey.meaning}" (${sameKey.printedName}); the site requires a different person for each meaning`;
+  }
+  // A second key does not make a second person: the printed name is compared too.
+  const name = next.printedName?.trim().toLowerCase();
+  const sameName = name ? earlier.find((s) => s.printedName.trim().toLowerCase() === name) : undefined;
+  if (rule.separatePeople && sameName) {
+    return `${sameName.printedName} already signed this revision as "${sameName.meaning}"; the site requires a different person for each meaning`;
   }
   return null;
 }

@@ -122,4 +122,22 @@ describe('signOffRefusal', () => {
       ),
     ).toMatch(/"reviewed"/);
   });
+
+  it('takes a second key of the same printed name as the same person when the site separates roles', () => {
+    const earlier = [{ meaning: 'prepared' as const, fingerprint: 'a', printedName: 'Rui Tanaka' }];
+    const rule = { required: ['prepared', 'approved'] as const, separatePeople: true };
+    expect(
+      signOffRefusal(rule, earlier, { meaning: 'approved', fingerprint: 'b', printedName: ' rui tanaka ' }),
+    ).toMatch(/different person/);
+    expect(
+      signOffRefusal({ ...rule, separatePeople: false }, earlier, {
+        meaning: 'approved',
+        fingerprint: 'b',
+        printedName: 'Rui Tanaka',
+      }),
+    ).toBeNull();
+    expect(
+      signOffRefusal(rule, earlier, { meaning: 'approved', fingerprint: 'b', printedName: 'Dana Okafor' }),
+    ).toBeNull();
+  });
 });

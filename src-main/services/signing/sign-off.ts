@@ -193,6 +193,7 @@ export function addSignOff(
   const refusal = signOffRefusal(signOffRule(current), revision.signOffs, {
     meaning: request.meaning,
     fingerprint: facts.fingerprint,
+    printedName: who,
   });
   if (refusal) return fail({ message: refusal });
   const unsigned: Omit<SignOff, 'signature'> = {
