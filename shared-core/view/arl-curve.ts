@@ -33,7 +33,7 @@ export function curveRatios(
 }
 
 /**
- * ARL of both limit sets over ratios from half the lower in-control rate to three times the higher
+ * ARL of both limit sets over ratios from ¾ of the lower in-control rate to three times the higher
  * one (both at the same k), from `averageRunLength` (exact Poisson; Markov chain for rule sets).
  */
 export function arlCurve(
@@ -42,7 +42,7 @@ export function arlCurve(
   points = 41,
 ): Result<ArlCurve> {
   const proposedRatio = proposed.at.rate / approved.at.rate;
-  const ratios = curveRatios(Math.min(1, proposedRatio) / 2, Math.max(1, proposedRatio) * 3, points, [
+  const ratios = curveRatios(Math.min(1, proposedRatio) * 0.75, Math.max(1, proposedRatio) * 3, points, [
     proposedRatio,
   ]);
   const before = averageRunLength(approved.at, approved.rules, ratios);
@@ -66,12 +66,22 @@ export function arlCurve(
   });
 }
 
+/** Run lengths above this are off the plot (a gap in the line): a million periods is "never" in practice. */
+export const maxShownArl = 1e6;
+
+/** 1, 10, 100, 1k, 10k, 100k, 1M: short enough for the axis. */
+export function decadeLabel(value: number): string {
+  return value >= 1e6 ? `${value / 1e6}M` : value >= 1e3 ? `${value / 1e3}k` : String(value);
+}
+
 export interface CurveLayout {
   width: number;
   height: number;
   margin: { left: number; right: number; top: number; bottom: number };
   /** The decades of the log y axis, e.g. 1, 10, 100, 1000. */
   decades: number[];
+  /** The top of the y axis: longer run lengths are left out of the line. */
+  high: number;
   x(ratio: number): number;
   y(arl: number): number;
 }
@@ -81,7 +91,7 @@ export function curveLayout(curve: ArlCurve, size = { width: 560, height: 300 })
   const margin = { left: 60, right: 16, top: 28, bottom: 44 };
   const finite = [...curve.approved, ...curve.proposed].filter((v): v is number => v !== null && v > 0);
   const top = Math.max(10, ...finite);
-  const high = Math.min(10 ** Math.ceil(Math.log10(top)), 1e7);
+  const high = Math.min(10 ** Math.ceil(Math.log10(top)), maxShownArl);
   const decades: number[] = [];
   for (let d = 1; d <= high; d *= 10) decades.push(d);
   const lowX = curve.ratios[0];
@@ -92,6 +102,7 @@ export function curveLayout(curve: ArlCurve, size = { width: 560, height: 300 })
     ...size,
     margin,
     decades,
+    high,
     x: (ratio) => margin.left + ((ratio - lowX) / (highX - lowX)) * plotWidth,
     y: (arl) =>
       margin.top + (1 - Math.log10(Math.min(Math.max(arl, 1), high)) / Math.log10(high)) * plotHeight,
@@ -107,7 +118,8 @@ function escapeXml(text: string): string {
 
 /**
  * The curve as an SVG: approved limits dashed slate, proposed solid teal, log y axis by decades,
- * vertical guides where each set is in control. An infinite ARL (no count can signal) leaves a gap.
+ * vertical guides where each set is in control. An infinite ARL (no count can signal) or one beyond
+ * a million periods leaves a gap.
  */
 export function arlCurveSvg(
   curve: ArlCurve,
@@ -121,7 +133,7 @@ export function arlCurveSvg(
     const runs: string[] = [];
     let current: string[] = [];
     values.forEach((v, i) => {
-      if (v === null) {
+      if (v === null || v > layout.high) {
         if (current.length > 1) runs.push(current.join(' '));
         current = [];
       } else current.push(`${f(x(curve.ratios[i]))},${f(y(v))}`);
@@ -141,7 +153,7 @@ export function arlCurveSvg(
       const ty = f(y(d));
       return (
         `<line x1="${margin.left}" x2="${width - margin.right}" y1="${ty}" y2="${ty}" stroke="${palette.grid}"/>` +
-        `<text x="${margin.left - 6}" y="${ty}" text-anchor="end" dominant-baseline="middle">${new Intl.NumberFormat('en-US').format(d)}</text>`
+        `<text x="${margin.left - 6}" y="${ty}" text-anchor="end" dominant-baseline="middle">${decadeLabel(d)}</text>`
       );
     })
     .join('');
@@ -153,10 +165,10 @@ export function arlCurveSvg(
     xTicks.push(
       `<text x="${f(x(t))}" y="${height - margin.bottom + 16}" text-anchor="middle">${Number(t.toFixed(2))}</text>`,
     );
-  const guide = (ratio: number, color: string, label: string, anchor: 'start' | 'end') =>
+  // Each guide's label to the right of it, at its own height, so that close guides do not collide.
+  const guide = (ratio: number, color: string, label: string, row: number) =>
     `<line x1="${f(x(ratio))}" x2="${f(x(ratio))}" y1="${margin.top}" y2="${height - margin.bottom}" stroke="${color}" stroke-width="1" stroke-dasharray="2 3"/>` +
-    `<text x="${f(x(ratio) + (anchor === 'start' ? 4 : -4))}" y="${margin.top + 12}" text-anchor="${anchor}" fill="${color}">${escapeXml(label)}</text>`;
-  const proposedLeft = curve.proposedRatio < 1;
+    `<text x="${f(x(ratio) + 4)}" y="${margin.top + 12 + 14 * row}" fill="${color}">${escapeXml(label)}</text>`;
   return [
     `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" font-family="DejaVu Sans, sans-serif" font-size="11" fill="${palette.ink}">`,
     `<rect width="100%" height="100%" fill="${palette.background}"/>`,
@@ -165,8 +177,8 @@ export function arlCurveSvg(
     `<text x="${margin.left + (width - margin.left - margin.right) / 2}" y="${height - 8}" text-anchor="middle">${escapeXml(text.xTitle)}</text>`,
     yTicks,
     ...xTicks,
-    guide(1, palette.center, 'approved rate', proposedLeft ? 'start' : 'end'),
-    guide(curve.proposedRatio, palette.limit, 'new rate', proposedLeft ? 'end' : 'start'),
+    guide(1, palette.center, 'approved rate', 1),
+    guide(curve.proposedRatio, palette.limit, 'new rate', 0),
     line(curve.approved, palette.center, '7 4', 'approved'),
     line(curve.proposed, palette.limit, '', 'proposed'),
     '</svg>',

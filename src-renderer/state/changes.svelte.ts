@@ -172,6 +172,7 @@ class Changes {
     );
     if (!next.ok) return next.findings.map((f) => ({ ...f, message: `${imported.file}: ${f.message}` }));
     study.replaceDocument(next.value);
+    this.importer.pasted = '';
     this.message = `${imported.observations.length} new periods from ${imported.file} added after the history.`;
     return [];
   }

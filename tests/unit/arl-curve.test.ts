@@ -1,7 +1,13 @@
 import poissonCdf from '@stdlib/stats-base-dists-poisson-cdf';
 import { describe, expect, it } from 'vitest';
 import { sigmaLimits } from '../../shared-core/charts/sigma-limits.js';
-import { arlCurve, arlCurveSvg, curveLayout, curveRatios } from '../../shared-core/view/arl-curve.js';
+import {
+  arlCurve,
+  arlCurveSvg,
+  curveLayout,
+  curveRatios,
+  decadeLabel,
+} from '../../shared-core/view/arl-curve.js';
 
 /**
  * ARL of the one-point rule = 1/p with p = P(X > UCL) + P(X < LCL), X ~ Poisson(mean)
@@ -55,6 +61,18 @@ describe('the run-length curve of a limit change', () => {
     expect(layout.decades.at(-1)!).toBeGreaterThanOrEqual(
       Math.max(...curve.value.approved.map((v) => v ?? 0)),
     );
+  });
+
+  it('labels the decades briefly and leaves run lengths beyond a million periods off the plot', () => {
+    expect([1, 10, 1000, 100000, 1000000].map(decadeLabel)).toEqual(['1', '10', '1k', '100k', '1M']);
+    const long = { ratios: [1, 2, 3], approved: [5e7, 100, 10], proposed: [20, null, 5], proposedRatio: 2 };
+    const layout = curveLayout(long);
+    expect(layout.high).toBe(1e6);
+    const svg = arlCurveSvg(long, { title: '', xTitle: '' });
+    // The approved line keeps only its two points on the plot; the proposed one breaks at the null.
+    const approvedLine = /data-curve="approved" points="([^"]+)"/.exec(svg)![1].split(' ');
+    expect(approvedLine).toHaveLength(2);
+    expect(svg).not.toContain('data-curve="proposed"');
   });
 
   it('draws both curves with a guide at each in-control rate', () => {
