@@ -122,6 +122,9 @@ class Changes {
   readonly firstIndex = $derived(this.chosenFirst ?? this.firstNew);
   problem = $state('');
   message = $state('');
+  /** The study document the message was written for: a later decision makes it stale. */
+  messageFor = $state.raw<Study | null>(null);
+  readonly shownMessage = $derived(this.messageFor === study.document ? this.message : '');
 
   /** The importer of the Data screen, delivering into the open study instead of a new one. */
   readonly importer = new DataImport((imported) => this.append(imported));
@@ -153,6 +156,17 @@ class Changes {
   /** Who signed the open draft as prepared, when anyone did. */
   readonly preparer = $derived(this.draft?.signOffs.find((s) => s.meaning === 'prepared') ?? null);
 
+  /**
+   * Why `printedName` may not approve the open draft: the site requires separate people and the
+   * same person prepared it (the host refuses it too, by key and by name). Null when nothing stands in the way.
+   */
+  separateRolesRefusal(printedName: string, meaning: string): string | null {
+    const preparer = this.preparer;
+    if (!this.rule.separatePeople || !preparer || meaning !== 'approved') return null;
+    if (printedName.trim().toLowerCase() !== preparer.printedName.trim().toLowerCase()) return null;
+    return `${preparer.printedName} prepared this draft: the site does not let the person who prepared a change approve it. Ask the approver to sign with their own key.`;
+  }
+
   /** Appends imported periods after the history (an audited event); the check follows from it. */
   append(imported: ImportedData): Finding[] {
     const document = study.document;
@@ -173,7 +187,7 @@ class Changes {
     if (!next.ok) return next.findings.map((f) => ({ ...f, message: `${imported.file}: ${f.message}` }));
     study.replaceDocument(next.value);
     this.importer.pasted = '';
-    this.message = `${imported.observations.length} new periods from ${imported.file} added after the history.`;
+    this.#say(`${imported.observations.length} new periods from ${imported.file} added after the history.`);
     return [];
   }
 
@@ -214,11 +228,19 @@ class Changes {
     this.problem = '';
     study.replaceDocument(next.value);
     this.chosenFirst = null;
+    this.reason = '';
     const draft = openChange(next.value);
-    this.message = `Revision ${draft?.number ?? ''} is drafted: its own Phase I is the last segment, from ${
-      deriveState(next.value).observations[draft?.segmentStart ?? 0]?.label ?? ''
-    }.`;
+    this.#say(
+      `Revision ${draft?.number ?? ''} is drafted: its own Phase I is the last segment, from ${
+        deriveState(next.value).observations[draft?.segmentStart ?? 0]?.label ?? ''
+      }.`,
+    );
     return true;
+  }
+
+  #say(message: string): void {
+    this.message = message;
+    this.messageFor = study.document;
   }
 }
 

@@ -188,7 +188,15 @@ describe.skipIf(!hasChromium || !hasServe)('a change of approved limits, against
       expect(await page.locator('[data-testid="change-first"]').inputValue()).toBe(
         String(demoObservations.length),
       );
-      await page.locator('[data-testid="change-point"]').waitFor();
+      // The change-point check proposes a split; accepting it sets the first period, which stays the user's choice.
+      const point = page.locator('[data-testid="change-point"]');
+      await point.waitFor();
+      expect(await point.innerText()).toMatch(/seed \d+/);
+      await page.locator('[data-testid="accept-change-point"]').click();
+      const accepted = Number(await page.locator('[data-testid="change-first"]').inputValue());
+      expect(accepted).toBeGreaterThan(0);
+      expect(await point.innerText()).toContain('The new study starts there.');
+      await page.locator('[data-testid="change-first"]').selectOption(String(demoObservations.length));
       await page.getByLabel('The process changed (equipment, material, method or site)').check();
       await page
         .locator('[data-testid="change-reason"]')
@@ -237,6 +245,13 @@ describe.skipIf(!hasChromium || !hasServe)('a change of approved limits, against
       // Sign the draft: prepared, then the preparer may not approve it; the approver does.
       await page.locator('[data-testid="go-signoff"]').click();
       expect(await sign(page, 'Test Preparer', 'prepared', preparerKey)).toContain('Signed as prepared');
+      // The change's summary on Sign-off, once that screen includes it (src-renderer/changes/ChangeSummary.svelte).
+      const changeSummary = page.locator('[data-testid="change-summary"]');
+      if ((await changeSummary.count()) > 0) {
+        expect(await changeSummary.innerText()).toContain('Burner controls replaced');
+        await page.locator('[data-testid="sign-meaning"]').selectOption('approved');
+        await page.locator('[data-testid="separate-roles-warning"]').waitFor();
+      }
       const refused = await sign(page, 'Test Preparer', 'approved', preparerKey);
       expect(refused).toMatch(/different person/);
       await screenshot(page, 'changes-signoff-refused');
@@ -260,6 +275,8 @@ describe.skipIf(!hasChromium || !hasServe)('a change of approved limits, against
       await expect
         .poll(() => page.locator('[data-testid="approved-revision"]').innerText())
         .toContain('revision 2');
+      await page.locator('[data-testid="propose-later"]').waitFor();
+      expect(await page.locator('[data-testid="changes-message"]').count()).toBe(0);
       await screenshot(page, 'changes-after-approval');
       await context.close();
     },

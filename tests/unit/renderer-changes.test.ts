@@ -197,5 +197,11 @@ describe('the Changes screen state', () => {
     expect(changes.rule.separatePeople).toBe(true);
     expect(changes.preparer?.printedName).toBe('Rui Tanaka');
     expect(changes.draft?.signOffs).toHaveLength(1);
+    // The screen says so before the preparer tries to approve; another name, or another meaning, is not stopped.
+    expect(changes.separateRolesRefusal(' rui tanaka ', 'approved')).toContain(
+      'Rui Tanaka prepared this draft',
+    );
+    expect(changes.separateRolesRefusal('Dana Okafor', 'approved')).toBeNull();
+    expect(changes.separateRolesRefusal('Rui Tanaka', 'reviewed')).toBeNull();
   });
 });
