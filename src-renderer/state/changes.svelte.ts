@@ -8,7 +8,8 @@ import {
   proposeChange,
   type DraftChangeEvidence,
 } from '../../shared-core/changes/propose-change.js';
-import type { Finding, Result } from '../../shared-core/result.js';
+import { fail, type Finding, type Result } from '../../shared-core/result.js';
+import { currentScope } from '../../shared-core/study/revision-scope.js';
 import { defaultSiteSettings, SiteSettingsSchema } from '../../shared-core/settings/site-settings.js';
 import type { PeriodResult } from '../../shared-core/study/analysis-types.js';
 import { localTime } from '../../shared-core/study/local-time.js';
@@ -129,9 +130,24 @@ class Changes {
   /** The importer of the Data screen, delivering into the open study instead of a new one. */
   readonly importer = new DataImport((imported) => this.append(imported));
 
-  readonly evidence: Result<DraftChangeEvidence> | null = $derived(
-    this.document && this.draft ? draftChangeEvidence(this.document) : null,
-  );
+  /**
+   * The evidence for the open draft. When the split where its new study starts was undone, the last
+   * segment is no longer the draft's study: the comparison would mix approved and new periods, so
+   * it is refused with what to do instead.
+   */
+  readonly evidence: Result<DraftChangeEvidence> | null = $derived.by(() => {
+    const document = this.document;
+    const draft = this.draft;
+    if (!document || !draft) return null;
+    const start = draft.segmentStart ?? 0;
+    if (currentScope(document).start !== start) {
+      const label = deriveState(document).observations[start]?.label ?? `period ${start + 1}`;
+      return fail({
+        message: `the history is no longer split at ${label}, where the new study of revision ${draft.number} starts (the split was undone): redo it (Ctrl+Y), or start a new segment at ${label} on Review, to see the evidence again`,
+      });
+    }
+    return draftChangeEvidence(document);
+  });
 
   readonly beforeAfter: BeforeAfter | null = $derived(
     this.evidence?.ok

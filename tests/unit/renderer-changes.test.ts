@@ -173,10 +173,33 @@ describe('the Changes screen state', () => {
     expect(evidence.value.comparison.pValue).toBeCloseTo(referenceP(x1, x0 + x1, t1 / (t0 + t1)), 10);
     expect(changes.beforeAfter?.approvedCount).toBe(demoObservations.length);
     expect(changes.curve?.ok).toBe(true);
+    // Undoing the split leaves the draft without its own study: the evidence is refused, not mixed.
+    expect(study.undo()).toBe(true);
+    expect(changes.evidence?.ok).toBe(false);
+    expect(changes.evidence?.ok ? '' : changes.evidence?.findings[0].message).toContain(
+      'no longer split at N-01',
+    );
+    expect(study.redo()).toBe(true);
+    expect(changes.evidence?.ok).toBe(true);
     // Proposing again while the draft is open is refused by the core, with its words.
     changes.reason = 'again';
     expect(changes.propose()).toBe(false);
     expect(changes.problem).toContain('draft revision is already open');
+  });
+
+  it('flags wider proposed limits for extra scrutiny', () => {
+    open(approved);
+    // Invented worse production: about 0.3 blemishes per panel, twice the demo's rate.
+    const worse = newShifts.map((o, i) => ({ ...o, count: [14, 12, 15, 13, 16, 12, 14, 13][i % 8] }));
+    changes.append(imported(worse));
+    changes.who = 'Rui Tanaka';
+    changes.reason = 'A second enamel supplier (invented)';
+    expect(changes.propose()).toBe(true);
+    if (!changes.evidence?.ok) throw new Error('no evidence');
+    // A higher rate gives a higher UCL at every k: ū·k + 3√(ū·k) grows with ū.
+    expect(changes.evidence.value.limits.every((l) => l.proposed.ucl > l.approved.ucl)).toBe(true);
+    expect(changes.evidence.value.wider).toBe(true);
+    expect(changes.evidence.value.warnings.map((w) => w.code)).toContain('wider-limits');
   });
 
   it('knows who prepared the draft, for the separate-people rule', async () => {
