@@ -59,6 +59,7 @@ export function ratioVerdict(test: RateRatioTest): string {
 /** The change-point result as a proposal: where the history most likely splits, and how sure. */
 export function changePointInWords(
   point: Pick<ChangePoint, 'pValue' | 'ratio' | 'replications' | 'seed' | 'generator'> & {
+    exceedances?: number;
     lastBefore: string;
     firstAfter: string;
   },
@@ -69,7 +70,9 @@ export function changePointInWords(
       ? 'from no nonconformities to some'
       : `the rate ${point.ratio < 1 ? 'falling' : 'rising'} to ${ratioText(point.ratio, locale)} times its earlier level`;
   return {
-    proposal: `The history most likely splits between ${point.lastBefore} and ${point.firstAfter}, ${step} (${pValueText(point.pValue, locale)} for a step anywhere).`,
+    proposal: `The history most likely splits between ${point.lastBefore} and ${point.firstAfter}, ${step} (${pValueText(point.pValue, locale)} for a step anywhere${
+      point.exceedances === 0 ? ', the smallest these replications can show' : ''
+    }).`,
     reproduce: `Monte Carlo p-value conditional on the total count: ${new Intl.NumberFormat(locale).format(point.replications)} replications, generator ${point.generator}, seed ${point.seed}.`,
   };
 }

@@ -89,5 +89,18 @@ describe('the evidence in words', () => {
     expect(words.proposal).toContain('falling to 0.55 times');
     expect(words.reproduce).toContain('9,999 replications');
     expect(words.reproduce).toContain('seed 20240601');
+    expect(words.proposal).not.toContain('smallest');
+    // No replication reached the observed statistic: p = 1/(1 + R), the floor of the method.
+    const floor = changePointInWords(
+      {
+        ...{ ratio: 0.55, replications: 9999, seed: 1, generator: 'g', lastBefore: 'a', firstAfter: 'b' },
+        pValue: 1e-4,
+        exceedances: 0,
+      },
+      'en-US',
+    );
+    expect(floor.proposal).toContain(
+      'p = 0.0001 for a step anywhere, the smallest these replications can show',
+    );
   });
 });
