@@ -7,7 +7,7 @@ import { importFile } from '../../services/import/import-file.js';
 import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-flags.js';
 import { exitOnInputError, InputError, parseCommandArgs } from '../input-error.js';
 import { analysisOptions, exclusionFromFlag, exclusionsFromFile, methodFlags } from '../method-flags.js';
-import { analysisJson } from '../analysis-json.js';
+import { writeAnalysisJson } from '../analysis-json.js';
 import { analysisTable } from '../analysis-table.js';
 
 export const usage = `Usage: limit-ledger analyze FILE --count COL [--units COL] [--label COL] [--chart c|u]
@@ -93,7 +93,9 @@ async function analyze(argv: string[]): Promise<number> {
     if (!saved.ok) throw new InputError(saved.findings.map(describeFinding).join('\n'));
   }
   if (values.json) {
-    process.stdout.write(`${JSON.stringify(analysisJson(result.value, outcome, iterations))}\n`);
+    // Written in large chunks as it is made: a long history's text is never held as one string.
+    writeAnalysisJson(result.value, outcome, iterations, (chunk) => process.stdout.write(chunk));
+    process.stdout.write('\n');
   } else {
     process.stdout.write(analysisTable(result.value, outcome, file));
   }

@@ -8,8 +8,9 @@ import { tablePreview, type TablePreview } from '../../../shared-core/import/tab
 import { readObservations } from '../../../shared-core/import/read-observations.js';
 import type { Result } from '../../../shared-core/result.js';
 import { fail, ok } from '../../../shared-core/result.js';
-import { decodeText, type TextEncoding } from './decode-text.js';
+import { decodeText, type DecodedText, type TextEncoding } from './decode-text.js';
 import { delimitedTable } from './delimited-table.js';
+import { fastDelimitedOutcome } from './fast-delimited.js';
 import { importLimits, megabytes, type ImportLimits } from './import-limits.js';
 import type { ImportRequest, ProgressListener } from './import-request.js';
 import { checkZipInflation } from './zip-inflation-guard.js';
@@ -17,6 +18,8 @@ import { checkZipInflation } from './zip-inflation-guard.js';
 export interface ImportOptions {
   onProgress?: ProgressListener;
   limits?: Partial<ImportLimits>;
+  /** Skip the one-pass reader of common delimited files (tests compare the two readers). */
+  generalReaderOnly?: boolean;
 }
 
 /** How to decode one table: what the user named, and the columns its header must hold. */
@@ -49,6 +52,7 @@ async function decodeTable(
   limits: ImportLimits,
   signal: AbortSignal | undefined,
   options: ImportOptions,
+  decodedText?: DecodedText,
 ): Promise<Result<DecodedTable>> {
   if (bytes.byteLength > limits.maxFileBytes) {
     return fail({
@@ -84,15 +88,41 @@ async function decodeTable(
   if (request.sheet !== undefined) {
     return fail({ file, message: `is a text file, not a workbook; --sheet ${request.sheet} does not apply` });
   }
-  const decoded = decodeText(bytes, file, request.encoding);
-  if (!decoded.ok) return decoded;
-  const { text, encoding, source: encodingSource } = decoded.value;
+  let text: string, encoding: TextEncoding, encodingSource: DecodedText['source'];
+  if (decodedText) ({ text, encoding, source: encodingSource } = decodedText);
+  else {
+    const decoded = decodeText(bytes, file, request.encoding);
+    if (!decoded.ok) return decoded;
+    ({ text, encoding, source: encodingSource } = decoded.value);
+  }
   return delimitedTable(
     text,
     file,
     { format: 'delimited', ...source, encoding, encodingSource },
     { delimiter: request.delimiter, headerNames: request.columns, limits },
   );
+}
+
+/**
+ * The outcome of a common delimited file by the one-pass reader, or the decoded text for the
+ * general reader when the fast one hands the file over (so it is decoded once); undefined when the
+ * bytes are not a text file within the limits (the general path words the refusal).
+ */
+function fastOutcome(
+  file: string,
+  bytes: Uint8Array,
+  request: ImportRequest,
+  limits: ImportLimits,
+  options: ImportOptions,
+): { outcome: ImportOutcome } | { decoded: DecodedText } | undefined {
+  if (bytes.byteLength > limits.maxFileBytes || fileKind(bytes) !== 'text') return undefined;
+  const decoded = decodeText(bytes, file, request.encoding);
+  if (!decoded.ok) return undefined;
+  options.onProgress?.({ phase: 'decoding' });
+  const { text, encoding, source: encodingSource } = decoded.value;
+  const source = { format: 'delimited' as const, sha256: sha256(bytes), bytes: bytes.byteLength };
+  const outcome = fastDelimitedOutcome(text, file, { ...source, encoding, encodingSource }, request, limits);
+  return outcome ? { outcome } : { decoded: decoded.value };
 }
 
 /** The table's periods: rows as periods, or events grouped into periods. */
@@ -139,6 +169,16 @@ async function importDecoded(
 ): Promise<Result<ImportOutcome>> {
   const limits = { ...importLimits, ...options.limits };
   const { encoding, delimiter, sheet, events } = request;
+  let decodedText: DecodedText | undefined;
+  if (!events && sheet === undefined && !options.generalReaderOnly) {
+    const fast = fastOutcome(file, bytes, request, limits, options);
+    if (fast && 'outcome' in fast) {
+      if (signal?.aborted) return cancelled(file);
+      options.onProgress?.({ phase: 'validating' });
+      return ok(fast.outcome);
+    }
+    decodedText = fast?.decoded;
+  }
   const table = await decodeTable(
     file,
     bytes,
@@ -146,6 +186,7 @@ async function importDecoded(
     limits,
     signal,
     options,
+    decodedText,
   );
   if (!table.ok) return table;
   let unitsTable: DecodedTable | undefined;
