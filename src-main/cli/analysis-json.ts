@@ -68,22 +68,30 @@ export function analysisJson(result: AnalysisResult, outcome: ImportOutcome, ite
 const needsEscape = /["\\\u0000-\u001f\ud800-\udfff]/;
 
 /**
- * Number texts already written: the limits, rates and z of a history repeat (one per distinct k,
- * one per distinct count and k), and writing a double's shortest form is the slow part.
+ * Number texts already written, in a small table indexed by a hash of the number's bits: the
+ * limits, rates and z of a history repeat (one per distinct k, one per distinct count and k), and
+ * writing a double's shortest form is the slow part. A slot holds the last number hashed to it.
  */
-const numberTexts = new Map<number, string>();
-const maxRemembered = 65_536;
+const slots = 4096;
+const slotNumbers = new Float64Array(slots).fill(NaN);
+const slotTexts: string[] = new Array<string>(slots).fill('');
+const bits = new Float64Array(1);
+const words = new Uint32Array(bits.buffer);
+
+function numberText(value: number): string {
+  bits[0] = value;
+  const slot = (words[0] ^ Math.imul(words[1], 0x9e3779b1)) >>> 20;
+  // -0 finds 0's slot text "0", which is also how JSON writes -0; NaN never matches.
+  if (slotNumbers[slot] === value) return slotTexts[slot];
+  const text = Number.isFinite(value) ? String(value) : 'null';
+  slotNumbers[slot] = value;
+  slotTexts[slot] = text;
+  return text;
+}
 
 /** `JSON.stringify(value)` for one value, with numbers, plain strings and empty arrays written directly. */
 function jsonValue(value: unknown): string | undefined {
-  if (typeof value === 'number') {
-    let text = numberTexts.get(value);
-    if (text === undefined) {
-      text = Number.isFinite(value) ? String(value) : 'null';
-      if (numberTexts.size < maxRemembered) numberTexts.set(value, text);
-    }
-    return text;
-  }
+  if (typeof value === 'number') return numberText(value);
   if (typeof value === 'string') return needsEscape.test(value) ? JSON.stringify(value) : `"${value}"`;
   if (Array.isArray(value) && value.length === 0) return '[]';
   return JSON.stringify(value);
@@ -95,20 +103,44 @@ function member(key: string, value: unknown): string {
   return written === undefined ? '' : `,"${key}":${written}`;
 }
 
+const isPlainText = (value: unknown): value is string =>
+  typeof value === 'string' && !needsEscape.test(value);
+const isNumber = (value: unknown): value is number => typeof value === 'number';
+
 /** `JSON.stringify(periodJson(p))`, without building the object. */
 export function periodJsonText(p: PeriodResult): string {
+  const { label, row, count, units, rate, lcl, ucl, z, status, rules } = p;
+  // The usual period (plain label, numbers, no rule fired, not excluded) in one template.
+  if (
+    isPlainText(label) &&
+    isNumber(row) &&
+    isNumber(count) &&
+    isNumber(units) &&
+    isNumber(rate) &&
+    (lcl === null || isNumber(lcl)) &&
+    isNumber(ucl) &&
+    isNumber(z) &&
+    isPlainText(status) &&
+    Array.isArray(rules) &&
+    rules.length === 0 &&
+    !p.rows &&
+    !p.cause
+  ) {
+    const lower = lcl === null ? 'null' : numberText(lcl);
+    return `{"label":"${label}","row":${numberText(row)},"count":${numberText(count)},"units":${numberText(units)},"rate":${numberText(rate)},"lcl":${lower},"ucl":${numberText(ucl)},"z":${numberText(z)},"status":"${status}","rules":[]}`;
+  }
   const text =
-    member('label', p.label) +
-    member('row', p.row) +
+    member('label', label) +
+    member('row', row) +
     (p.rows ? member('rows', p.rows) : '') +
-    member('count', p.count) +
-    member('units', p.units) +
-    member('rate', p.rate) +
-    member('lcl', p.lcl) +
-    member('ucl', p.ucl) +
-    member('z', p.z) +
-    member('status', p.status) +
-    member('rules', p.rules) +
+    member('count', count) +
+    member('units', units) +
+    member('rate', rate) +
+    member('lcl', lcl) +
+    member('ucl', ucl) +
+    member('z', z) +
+    member('status', status) +
+    member('rules', rules) +
     (p.cause ? member('cause', p.cause) : '');
   return text === '' ? '{}' : `{${text.slice(1)}}`;
 }
@@ -126,15 +158,23 @@ export function writeAnalysisJson(
   chunkChars = 1 << 20,
 ): void {
   const head = JSON.stringify(headFields(result));
-  let chunk = `${head.slice(0, -1)}${head.length > 2 ? ',' : ''}"periods":[`;
-  const periods = result.periods;
-  for (let i = 0; i < periods.length; i++) {
-    chunk += i === 0 ? periodJsonText(periods[i]) : ',' + periodJsonText(periods[i]);
-    if (chunk.length >= chunkChars) {
-      write(chunk);
-      chunk = '';
+  let prefix = `${head.slice(0, -1)}${head.length > 2 ? ',' : ''}"periods":[`;
+  // Periods are joined chunk by chunk: a join gives one flat string, where adding each period to
+  // the chunk would give a deep chain of pieces that is slow to turn into bytes.
+  let parts: string[] = [];
+  let size = 0;
+  for (const period of result.periods) {
+    const text = periodJsonText(period);
+    parts.push(text);
+    size += text.length + 1;
+    if (size >= chunkChars) {
+      write(prefix + parts.join(','));
+      prefix = ',';
+      parts = [];
+      size = 0;
     }
   }
+  const rest = parts.length > 0 ? prefix + parts.join(',') : prefix === ',' ? '' : prefix;
   const tail = JSON.stringify(tailFields(result, outcome, iterations));
-  write(`${chunk}]${tail.length > 2 ? ',' + tail.slice(1) : '}'}`);
+  write(`${rest}]${tail.length > 2 ? ',' + tail.slice(1) : '}'}`);
 }

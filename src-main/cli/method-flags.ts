@@ -1,5 +1,4 @@
 import { readFile } from 'node:fs/promises';
-import Papa from 'papaparse';
 import { describeFinding, type Finding } from '../../shared-core/result.js';
 import { parseRuleList } from '../../shared-core/rules/rule-catalog.js';
 import { normalQuantile } from '../../shared-core/stats/normal.js';
@@ -125,6 +124,7 @@ export async function exclusionsFromFile(
   } catch (error) {
     throw new InputError(`${file}: cannot be read (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
   }
+  const { default: Papa } = await import('papaparse'); // loaded only when an exclusions file is named
   const parsed = Papa.parse<string[]>(text, { skipEmptyLines: 'greedy' });
   const [header, ...rows] = parsed.data;
   const column = (name: string) => (header ?? []).findIndex((h) => h.trim().toLowerCase() === name);

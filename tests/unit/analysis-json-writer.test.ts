@@ -45,7 +45,25 @@ const cause = fc.record(
   { requiredKeys: ['category', 'description'] },
 );
 
-const period: fc.Arbitrary<PeriodResult> = fc
+/** A period as the analysis gives it, the common shape the writer takes in one template. */
+const usualPeriod: fc.Arbitrary<PeriodResult> = fc
+  .record({
+    index: fc.nat(),
+    label: text,
+    row: fc.nat(),
+    count: number,
+    units: number,
+    rate: number,
+    center: number,
+    lcl: fc.oneof(number, fc.constant(null)),
+    ucl: number,
+    z: number,
+    status: fc.constantFrom('in', 'signal', 'excluded', 'é"'),
+    rules: fc.oneof(fc.constant([]), fc.array(fc.constantFrom('beyond', 'run'))),
+  })
+  .map((p) => p as unknown as PeriodResult);
+
+const anyPeriod: fc.Arbitrary<PeriodResult> = fc
   .record(
     {
       index: fc.nat(),
@@ -67,6 +85,8 @@ const period: fc.Arbitrary<PeriodResult> = fc
     { requiredKeys: ['index', 'row', 'count', 'status'] },
   )
   .map((p) => p as PeriodResult);
+
+const period = fc.oneof(usualPeriod, anyPeriod);
 
 function analysisOf(periods: PeriodResult[]): {
   result: AnalysisResult;

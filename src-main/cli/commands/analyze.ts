@@ -8,7 +8,6 @@ import { importFlagHelp, importFlags, importRequestFromFlags } from '../import-f
 import { exitOnInputError, InputError, parseCommandArgs } from '../input-error.js';
 import { analysisOptions, exclusionFromFlag, exclusionsFromFile, methodFlags } from '../method-flags.js';
 import { writeAnalysisJson } from '../analysis-json.js';
-import { analysisTable } from '../analysis-table.js';
 
 export const usage = `Usage: limit-ledger analyze FILE --count COL [--units COL] [--label COL] [--chart c|u]
   [--limits sigma|probability|laney] [--sigma L] [--alpha A | --fap F] [--rate R]
@@ -97,6 +96,7 @@ async function analyze(argv: string[]): Promise<number> {
     writeAnalysisJson(result.value, outcome, iterations, (chunk) => process.stdout.write(chunk));
     process.stdout.write('\n');
   } else {
+    const { analysisTable } = await import('../analysis-table.js');
     process.stdout.write(analysisTable(result.value, outcome, file));
   }
   return 0;

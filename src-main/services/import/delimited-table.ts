@@ -1,4 +1,4 @@
-import Papa from 'papaparse';
+import { createRequire } from 'node:module';
 import type { Result } from '../../../shared-core/result.js';
 import { fail, ok } from '../../../shared-core/result.js';
 import type { Cell, DecodedTable, TableSource } from '../../../shared-core/import/decoded-table.js';
@@ -22,8 +22,12 @@ const candidates = ['\t', ';', '|', ','] as const;
 export const delimiterLabel = (delimiter: string) =>
   ({ ',': 'comma', ';': 'semicolon', '\t': 'tab', '|': 'pipe' })[delimiter] ?? delimiter;
 
+// papaparse loads on first use: the one-pass reader takes most files without it.
+let papa: typeof import('papaparse') | undefined;
+
 function parse(text: string, delimiter: string, preview = 0) {
-  return Papa.parse<string[]>(text, { delimiter, preview, skipEmptyLines: false, newline: undefined });
+  papa ??= createRequire(import.meta.url)('papaparse') as typeof import('papaparse');
+  return papa.parse<string[]>(text, { delimiter, preview, skipEmptyLines: false, newline: undefined });
 }
 
 const isBlankRecord = (record: string[]) => record.every((field) => field.trim() === '');
@@ -34,9 +38,17 @@ const isBlankRecord = (record: string[]) => record.every((field) => field.trim()
  * semicolon file does not make it comma-delimited. Ties go to tab, semicolon, pipe, then comma.
  */
 export function detectDelimiter(text: string): string {
+  return delimiterOfRecords((delimiter) => parse(text, delimiter, detectionRecords).data);
+}
+
+/** How many records of a text the delimiter detection reads. */
+export const detectionRecords = 60;
+
+/** The choice of `detectDelimiter`, given the first `detectionRecords` records split by each candidate. */
+export function delimiterOfRecords(firstRecords: (delimiter: string) => string[][]): string {
   let best: { delimiter: string; score: number; fields: number } = { delimiter: ',', score: -1, fields: 0 };
   for (const delimiter of candidates) {
-    const records = parse(text, delimiter, 60).data.filter((record) => !isBlankRecord(record));
+    const records = firstRecords(delimiter).filter((record) => !isBlankRecord(record));
     if (records.length === 0) continue;
     const counts = records.map((record) => record.length);
     const widest = Math.max(...counts);

@@ -12,7 +12,7 @@ import type { ImportSettings } from '../../../shared-core/import/import-settings
 import { duplicateLabelWarnings } from '../../../shared-core/import/period-checks.js';
 import { appendCapped } from '../../../shared-core/import/read-observations.js';
 import type { Observation } from '../../../shared-core/study/analysis-types.js';
-import { detectDelimiter } from './delimited-table.js';
+import { delimiterOfRecords, detectDelimiter, detectionRecords } from './delimited-table.js';
 import type { ImportLimits } from './import-limits.js';
 
 /** What the fast reader needs to know of a request: a plain table of rows, one period a row. */
@@ -25,8 +25,6 @@ const canonicalWhole = /^(?:0|[1-9]\d{0,14})$/;
 /** A plain decimal with a point: "2.5", "0.125". */
 const plainDecimal = /^\d{1,15}\.\d{1,15}$/;
 const delimiters = new Set([',', ';', '\t', '|']);
-/** The delimiter detection reads the first 60 records; this many lines are always enough. */
-const detectionLines = 64;
 
 /** Thrown inside the reader to hand the file over to the general reader. */
 class HandOver extends Error {}
@@ -140,16 +138,23 @@ function lineBreak(text: string): '\n' | '\r\n' | null {
   return returns === pairs && newlines === pairs ? '\r\n' : null;
 }
 
-/** The delimiter the general reader would detect, without parsing the whole text to find it. */
-function detectedDelimiter(text: string): string {
+/**
+ * The delimiter the general reader would detect, without parsing the whole text to find it: the
+ * first records of a text without quotes are its first lines split at the candidate.
+ */
+function detectedDelimiter(text: string, newline: string): string {
   let end = -1;
-  for (let i = 0; i < detectionLines; i++) {
-    end = text.indexOf('\n', end + 1);
-    if (end < 0) return detectDelimiter(text);
+  for (let i = 0; i < detectionRecords; i++) {
+    end = text.indexOf(newline, end + 1);
+    if (end < 0) {
+      end = text.length;
+      break;
+    }
   }
-  const head = text.slice(0, end + 1);
-  // Without quotes the first records of the head are those of the whole text, quote for quote.
-  return head.indexOf('"') < 0 ? detectDelimiter(head) : detectDelimiter(text);
+  const head = text.slice(0, end);
+  if (head.indexOf('"') >= 0) return detectDelimiter(text);
+  const lines = head.split(newline).slice(0, detectionRecords);
+  return delimiterOfRecords((delimiter) => lines.map((line) => line.split(delimiter)));
 }
 
 /**
@@ -193,7 +198,7 @@ function readFast(
   if (request.delimiter !== undefined && !delimiters.has(request.delimiter)) return null;
   const newline = lineBreak(text);
   if (newline === null) return null;
-  const delimiter = request.delimiter ?? detectedDelimiter(text);
+  const delimiter = request.delimiter ?? detectedDelimiter(text, newline);
 
   const firstEnd = text.indexOf(newline);
   const headerFields = splitLine(firstEnd < 0 ? text : text.slice(0, firstEnd), delimiter);
@@ -345,15 +350,16 @@ function readFast(
   return { observations, rejected, noProduction, report };
 }
 
-/** The duplicate-label warnings, worked out only for the labels that repeat (most files have none). */
+/**
+ * The duplicate-label warnings, worked out only for the labels that repeat (most files have none):
+ * sorted labels put repeats side by side, and sorting is quicker than a set of 100,000 labels.
+ */
 function duplicateLabels(periods: Observation[], column: string): ImportWarning[] {
-  const seen = new Set<string>();
-  const repeated = new Set<string>();
-  for (const period of periods) {
-    if (seen.has(period.label)) repeated.add(period.label);
-    else seen.add(period.label);
-  }
-  if (repeated.size === 0) return [];
+  const labels = periods.map((period) => period.label).sort();
+  let repeated: Set<string> | undefined;
+  for (let i = 1; i < labels.length; i++)
+    if (labels[i] === labels[i - 1]) (repeated ??= new Set()).add(labels[i]);
+  if (repeated === undefined) return [];
   return duplicateLabelWarnings(
     periods.filter((period) => repeated.has(period.label)),
     column,

@@ -2,9 +2,9 @@ import { createHash } from 'node:crypto';
 import { open } from 'node:fs/promises';
 import { basename } from 'node:path';
 import type { DecodedTable } from '../../../shared-core/import/decoded-table.js';
-import { readEventPeriods, type UnitsTable } from '../../../shared-core/import/event-periods.js';
+import type { UnitsTable } from '../../../shared-core/import/event-periods.js';
 import type { ImportOutcome } from '../../../shared-core/import/import-report.js';
-import { tablePreview, type TablePreview } from '../../../shared-core/import/table-preview.js';
+import type { TablePreview } from '../../../shared-core/import/table-preview.js';
 import { readObservations } from '../../../shared-core/import/read-observations.js';
 import type { Result } from '../../../shared-core/result.js';
 import { fail, ok } from '../../../shared-core/result.js';
@@ -13,7 +13,6 @@ import { delimitedTable } from './delimited-table.js';
 import { fastDelimitedOutcome } from './fast-delimited.js';
 import { importLimits, megabytes, type ImportLimits } from './import-limits.js';
 import type { ImportRequest, ProgressListener } from './import-request.js';
-import { checkZipInflation } from './zip-inflation-guard.js';
 
 export interface ImportOptions {
   onProgress?: ProgressListener;
@@ -71,6 +70,7 @@ async function decodeTable(
   }
   if (kind === 'zip') {
     options.onProgress?.({ phase: 'checking' });
+    const { checkZipInflation } = await import('./zip-inflation-guard.js');
     const checked = await checkZipInflation(bytes, file, limits, signal);
     if (!checked.ok) return checked;
     if (signal?.aborted) return cancelled(file);
@@ -126,16 +126,18 @@ function fastOutcome(
 }
 
 /** The table's periods: rows as periods, or events grouped into periods. */
-function outcomeFromTable(
+async function outcomeFromTable(
   table: DecodedTable,
   request: ImportRequest,
   unitsTable: DecodedTable | undefined,
-): Result<ImportOutcome> {
+): Promise<Result<ImportOutcome>> {
   const { count, units, label, date, decimal, dateOrder, inspectionUnit, events } = request;
   const settings = { decimal, dateOrder, inspectionUnit };
   if (!events) return readObservations(table, { count, units, label, date }, settings);
   const unitsSource: UnitsTable | undefined =
     unitsTable && units ? { table: unitsTable, key: events.unitsKey ?? events.time, units } : undefined;
+  // Event lists are the rarer import: their grouping code loads only for them.
+  const { readEventPeriods } = await import('../../../shared-core/import/event-periods.js');
   return readEventPeriods(
     table,
     {
@@ -262,7 +264,9 @@ export async function previewBytes(
       undefined,
       options,
     );
-    return table.ok ? ok(tablePreview(table.value)) : table;
+    if (!table.ok) return table;
+    const { tablePreview } = await import('../../../shared-core/import/table-preview.js');
+    return ok(tablePreview(table.value));
   } catch (error) {
     return fail({ file: fileName, message: `${unexpectedFailure} (${(error as Error).message})` });
   }
