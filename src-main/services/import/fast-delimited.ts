@@ -71,12 +71,33 @@ function splitLine(line: string, delimiter: string): string[] {
 const isBlankFields = (fields: string[]) => fields.every((field) => field.trim() === '');
 
 /**
- * The wanted cells of one line (count, units, label: undefined where the line is short), how many
- * fields it has and whether one beyond the header holds something. Reused from line to line: a
- * line's other fields are never cut out.
+ * The value of text[from, to) when it is a whole number as `canonicalWhole` takes it, else -1: the
+ * usual count or units cell is read without cutting it out of the text.
+ */
+function wholeAt(text: string, from: number, to: number): number {
+  const length = to - from;
+  if (length < 1 || length > 15) return -1;
+  if (text.charCodeAt(from) === 48) return length === 1 ? 0 : -1;
+  let value = 0;
+  for (let i = from; i < to; i++) {
+    const digit = text.charCodeAt(i) - 48;
+    if (digit < 0 || digit > 9) return -1;
+    value = value * 10 + digit;
+  }
+  return value;
+}
+
+/**
+ * The wanted cells of one line (count, units, label), how many fields it has and whether one beyond
+ * the header holds something. Reused from line to line: a line's other fields are never cut out,
+ * and a count or units cell that is a plain whole number is read in place.
  */
 class LineCells {
-  readonly wanted: (string | undefined)[];
+  /** Where each wanted cell starts and ends in the text (-1: the line is too short to have it). */
+  private readonly starts: number[];
+  private readonly ends: number[];
+  /** The cells of a line split the careful way (quotes), or null for a line read in place. */
+  private fieldsOfLine: (string | undefined)[] | null = null;
   fields = 0;
   extra = false;
 
@@ -86,23 +107,26 @@ class LineCells {
     private readonly width: number,
     private readonly columns: number[],
   ) {
-    this.wanted = columns.map(() => undefined);
+    this.starts = columns.map(() => -1);
+    this.ends = columns.map(() => -1);
   }
 
   /** A line without quotes, from `start` to `end` (its break excluded). */
   scan(start: number, end: number): void {
-    const { text, delimiter, width, columns, wanted } = this;
-    wanted[0] = wanted[1] = wanted[2] = undefined;
+    const { text, delimiter, width, columns, starts, ends } = this;
+    this.fieldsOfLine = null;
+    starts[0] = starts[1] = starts[2] = -1;
     this.extra = false;
     let index = 0;
     let from = start;
     for (;;) {
       let to = text.indexOf(delimiter, from);
       if (to < 0 || to > end) to = end;
-      if (index === columns[0]) wanted[0] = text.slice(from, to);
-      else if (index === columns[1]) wanted[1] = text.slice(from, to);
-      else if (index === columns[2]) wanted[2] = text.slice(from, to);
-      else if (index >= width && !this.extra && text.slice(from, to).trim() !== '') this.extra = true;
+      const wanted = index === columns[0] ? 0 : index === columns[1] ? 1 : index === columns[2] ? 2 : -1;
+      if (wanted >= 0) {
+        starts[wanted] = from;
+        ends[wanted] = to;
+      } else if (index >= width && !this.extra && text.slice(from, to).trim() !== '') this.extra = true;
       index++;
       if (to === end) break;
       from = to + 1;
@@ -113,9 +137,24 @@ class LineCells {
   /** A line with a quote: split field by field (or handed over). */
   split(start: number, end: number): void {
     const fields = splitLine(this.text.slice(start, end), this.delimiter);
-    for (let i = 0; i < this.columns.length; i++) this.wanted[i] = fields[this.columns[i]];
+    this.fieldsOfLine = this.columns.map((column) => fields[column]);
     this.fields = fields.length;
     this.extra = fields.length > this.width && !isBlankFields(fields.slice(this.width));
+  }
+
+  /** The text of wanted cell `k` (0 count, 1 units, 2 label), or undefined when the line is short. */
+  cell(k: number): string | undefined {
+    if (this.fieldsOfLine !== null) return this.fieldsOfLine[k];
+    return this.starts[k] < 0 ? undefined : this.text.slice(this.starts[k], this.ends[k]);
+  }
+
+  /** The value of wanted cell `k` when it is a plain whole number as written, else -1. */
+  whole(k: number): number {
+    if (this.fieldsOfLine !== null) {
+      const cell = this.fieldsOfLine[k];
+      return cell !== undefined && canonicalWhole.test(cell) ? Number(cell) : -1;
+    }
+    return this.starts[k] < 0 ? -1 : wholeAt(this.text, this.starts[k], this.ends[k]);
   }
 }
 
@@ -239,13 +278,16 @@ function readFast(
     const lineStart = start;
     start = end + step;
     row++;
-    const countText = cells.wanted[0];
-    if (countText === undefined || !canonicalWhole.test(countText)) {
+    let countValue = cells.whole(0);
+    if (countValue < 0) {
+      const countText = cells.cell(0);
       if (isBlankFields(splitLine(text.slice(lineStart, end), delimiter))) {
         pendingBlank.push(row);
         continue;
       }
-      if (countText === undefined || !canonicalWhole.test(countText.trim())) return null;
+      const trimmed = countText?.trim();
+      if (trimmed === undefined || !canonicalWhole.test(trimmed)) return null;
+      countValue = Number(trimmed);
     }
     if (pendingBlank.length > 0) {
       for (const blank of pendingBlank) blankRows.push(blank);
@@ -262,13 +304,12 @@ function readFast(
       });
     }
 
-    const countValue = Number(countText);
     let unitsValue = 1;
     if (unitsAt !== undefined) {
-      const unitsText = cells.wanted[1];
-      if (unitsText === undefined) return null;
-      if (canonicalWhole.test(unitsText)) unitsValue = Number(unitsText);
-      else {
+      unitsValue = cells.whole(1);
+      if (unitsValue < 0) {
+        const unitsText = cells.cell(1);
+        if (unitsText === undefined) return null;
         const trimmed = unitsText.trim();
         if (canonicalWhole.test(trimmed)) unitsValue = Number(trimmed);
         else if (plainDecimal.test(trimmed)) {
@@ -285,7 +326,7 @@ function readFast(
 
     let labelText = '';
     if (labelAt !== undefined) {
-      const cell = cells.wanted[2];
+      const cell = cells.cell(2);
       if (cell !== undefined) labelText = cell.trim();
       if (labelText === '') blankLabelRows.push(row);
     }
