@@ -107,11 +107,10 @@ const isPlainText = (value: unknown): value is string =>
   typeof value === 'string' && !needsEscape.test(value);
 const isNumber = (value: unknown): value is number => typeof value === 'number';
 
-/** `JSON.stringify(periodJson(p))`, without building the object. */
-export function periodJsonText(p: PeriodResult): string {
+/** The usual period: a plain label and status, numbers, no rule fired, not excluded, no rows. */
+function isUsual(p: PeriodResult): boolean {
   const { label, row, count, units, rate, lcl, ucl, z, status, rules } = p;
-  // The usual period (plain label, numbers, no rule fired, not excluded) in one template.
-  if (
+  return (
     isPlainText(label) &&
     isNumber(row) &&
     isNumber(count) &&
@@ -125,56 +124,123 @@ export function periodJsonText(p: PeriodResult): string {
     rules.length === 0 &&
     !p.rows &&
     !p.cause
-  ) {
-    const lower = lcl === null ? 'null' : numberText(lcl);
-    return `{"label":"${label}","row":${numberText(row)},"count":${numberText(count)},"units":${numberText(units)},"rate":${numberText(rate)},"lcl":${lower},"ucl":${numberText(ucl)},"z":${numberText(z)},"status":"${status}","rules":[]}`;
-  }
+  );
+}
+
+/** `JSON.stringify(periodJson(p))`, without building the object. */
+export function periodJsonText(p: PeriodResult): string {
   const text =
-    member('label', label) +
-    member('row', row) +
+    member('label', p.label) +
+    member('row', p.row) +
     (p.rows ? member('rows', p.rows) : '') +
-    member('count', count) +
-    member('units', units) +
-    member('rate', rate) +
-    member('lcl', lcl) +
-    member('ucl', ucl) +
-    member('z', z) +
-    member('status', status) +
-    member('rules', rules) +
+    member('count', p.count) +
+    member('units', p.units) +
+    member('rate', p.rate) +
+    member('lcl', p.lcl) +
+    member('ucl', p.ucl) +
+    member('z', p.z) +
+    member('status', p.status) +
+    member('rules', p.rules) +
     (p.cause ? member('cause', p.cause) : '');
   return text === '' ? '{}' : `{${text.slice(1)}}`;
 }
 
+const encoder = new TextEncoder();
+
 /**
- * Writes `JSON.stringify(analysisJson(...))` to `write` in chunks of about `chunkChars` characters:
- * the periods, nearly all of the text for a long history, are written one by one instead of being
- * built as objects and stringified as one string.
+ * UTF-8 bytes gathered into chunks of `size` bytes, each handed to `write` when it is full (and
+ * never touched again). ASCII text is copied code by code; other text goes through the encoder.
+ */
+class ByteChunks {
+  private buffer: Uint8Array;
+  private used = 0;
+
+  constructor(
+    private readonly size: number,
+    private readonly write: (bytes: Uint8Array) => void,
+  ) {
+    this.buffer = new Uint8Array(size);
+  }
+
+  text(value: string): void {
+    const length = value.length;
+    if (this.used + length > this.size) this.flush();
+    if (length > this.size) return this.encoded(value);
+    const buffer = this.buffer;
+    let used = this.used;
+    for (let i = 0; i < length; i++) {
+      const code = value.charCodeAt(i);
+      if (code >= 128) {
+        // Stops before a surrogate pair's first half, so the pair is encoded whole.
+        this.used = used;
+        return this.encoded(value.slice(i));
+      }
+      buffer[used++] = code;
+    }
+    this.used = used;
+  }
+
+  private encoded(value: string): void {
+    const bytes = encoder.encode(value);
+    if (this.used + bytes.length > this.size) this.flush();
+    if (bytes.length > this.size) return this.write(bytes);
+    this.buffer.set(bytes, this.used);
+    this.used += bytes.length;
+  }
+
+  flush(): void {
+    if (this.used === 0) return;
+    this.write(this.buffer.subarray(0, this.used));
+    this.buffer = new Uint8Array(this.size);
+    this.used = 0;
+  }
+}
+
+/** One period's JSON into the chunks: the usual period piece by piece, any other as text. */
+function writePeriod(out: ByteChunks, p: PeriodResult): void {
+  if (!isUsual(p)) return out.text(periodJsonText(p));
+  out.text('{"label":"');
+  out.text(p.label);
+  out.text('","row":');
+  out.text(numberText(p.row));
+  out.text(',"count":');
+  out.text(numberText(p.count));
+  out.text(',"units":');
+  out.text(numberText(p.units));
+  out.text(',"rate":');
+  out.text(numberText(p.rate));
+  out.text(',"lcl":');
+  out.text(p.lcl === null ? 'null' : numberText(p.lcl));
+  out.text(',"ucl":');
+  out.text(numberText(p.ucl));
+  out.text(',"z":');
+  out.text(numberText(p.z));
+  out.text(',"status":"');
+  out.text(p.status);
+  out.text('","rules":[]}');
+}
+
+/**
+ * Writes the UTF-8 bytes of `JSON.stringify(analysisJson(...))` to `write` in chunks of
+ * `chunkBytes`: the periods, nearly all of a long history's text, go into the chunks one by one,
+ * never built as objects or as one string.
  */
 export function writeAnalysisJson(
   result: AnalysisResult,
   outcome: ImportOutcome,
   iterations: Iteration[],
-  write: (chunk: string) => void,
-  chunkChars = 1 << 20,
+  write: (bytes: Uint8Array) => void,
+  chunkBytes = 1 << 20,
 ): void {
+  const out = new ByteChunks(chunkBytes, write);
   const head = JSON.stringify(headFields(result));
-  let prefix = `${head.slice(0, -1)}${head.length > 2 ? ',' : ''}"periods":[`;
-  // Periods are joined chunk by chunk: a join gives one flat string, where adding each period to
-  // the chunk would give a deep chain of pieces that is slow to turn into bytes.
-  let parts: string[] = [];
-  let size = 0;
-  for (const period of result.periods) {
-    const text = periodJsonText(period);
-    parts.push(text);
-    size += text.length + 1;
-    if (size >= chunkChars) {
-      write(prefix + parts.join(','));
-      prefix = ',';
-      parts = [];
-      size = 0;
-    }
+  out.text(`${head.slice(0, -1)}${head.length > 2 ? ',' : ''}"periods":[`);
+  const periods = result.periods;
+  for (let i = 0; i < periods.length; i++) {
+    if (i > 0) out.text(',');
+    writePeriod(out, periods[i]);
   }
-  const rest = parts.length > 0 ? prefix + parts.join(',') : prefix === ',' ? '' : prefix;
   const tail = JSON.stringify(tailFields(result, outcome, iterations));
-  write(`${rest}]${tail.length > 2 ? ',' + tail.slice(1) : '}'}`);
+  out.text(`]${tail.length > 2 ? ',' + tail.slice(1) : '}'}`);
+  out.flush();
 }

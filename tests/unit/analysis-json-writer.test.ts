@@ -128,12 +128,18 @@ describe('writeAnalysisJson', () => {
     fc.assert(
       fc.property(fc.array(period, { maxLength: 40 }), fc.integer({ min: 1, max: 5000 }), (periods, size) => {
         const { result, outcome, iterations } = analysisOf(periods);
-        const chunks: string[] = [];
+        const chunks: Uint8Array[] = [];
         writeAnalysisJson(result, outcome, iterations, (chunk) => chunks.push(chunk), size);
         const expected = JSON.stringify(analysisJson(result, outcome, iterations));
-        expect(chunks.join('')).toBe(expected);
-        // Every chunk but the last is written once it reaches the size asked for.
-        for (const chunk of chunks.slice(0, -1)) expect(chunk.length).toBeGreaterThanOrEqual(size);
+        // Byte for byte the UTF-8 of JSON.stringify's text, and the same text read back.
+        expect(Buffer.concat(chunks).equals(Buffer.from(expected, 'utf8'))).toBe(true);
+        expect(new TextDecoder().decode(Buffer.concat(chunks))).toBe(expected);
+        // No chunk is over the size asked for, unless one piece of text is (a long period).
+        const longest = Math.max(
+          ...periods.map((p) => Buffer.byteLength(JSON.stringify(periodJson(p)))),
+          2000,
+        );
+        for (const chunk of chunks) expect(chunk.length).toBeLessThanOrEqual(Math.max(size, longest));
       }),
       { numRuns: 300 },
     );
@@ -153,9 +159,11 @@ describe('writeAnalysisJson', () => {
     );
     if (!analyzed.ok) throw new Error('the analysis failed');
     const { outcome, iterations } = analysisOf([]);
-    const chunks: string[] = [];
+    const chunks: Uint8Array[] = [];
     writeAnalysisJson(analyzed.value, outcome, iterations, (chunk) => chunks.push(chunk), 4096);
     expect(chunks.length).toBeGreaterThan(10);
-    expect(chunks.join('')).toBe(JSON.stringify(analysisJson(analyzed.value, outcome, iterations)));
+    for (const chunk of chunks) expect(chunk.length).toBeLessThanOrEqual(4096);
+    const expected = JSON.stringify(analysisJson(analyzed.value, outcome, iterations));
+    expect(Buffer.concat(chunks).equals(Buffer.from(expected, 'utf8'))).toBe(true);
   });
 });

@@ -92,8 +92,8 @@ async function analyze(argv: string[]): Promise<number> {
     if (!saved.ok) throw new InputError(saved.findings.map(describeFinding).join('\n'));
   }
   if (values.json) {
-    // Written in large chunks as it is made: a long history's text is never held as one string.
-    writeAnalysisJson(result.value, outcome, iterations, (chunk) => process.stdout.write(chunk));
+    // Written in chunks of bytes as it is made: a long history's text is never held as one string.
+    writeAnalysisJson(result.value, outcome, iterations, (bytes) => process.stdout.write(bytes));
     process.stdout.write('\n');
   } else {
     const { analysisTable } = await import('../analysis-table.js');
