@@ -7,6 +7,9 @@ import { factsFileName, type PacketFacts } from './packet-facts.js';
 import type { PacketContent } from './packet-content.js';
 import { cautions, formulaWords, methodWords, shown, shownProbability } from './packet-words.js';
 import { palette } from './chart-layout.js';
+import { changeSection } from './change-section-pdf.js';
+import { drawTable, type TableColumn } from './pdf-table.js';
+import { installLayoutShortcut } from './pdf-text-layout.js';
 
 export type Paper = 'a4' | 'letter';
 
@@ -51,11 +54,17 @@ export function buildPacketPdf(content: PacketContent, request: PdfRequest): Pro
   });
   doc.registerFont(fonts.regular, fontFiles.regular);
   doc.registerFont(fonts.bold, fontFiles.bold);
+  // Numbers and labels skip OpenType shaping that cannot change them (pdf-text-layout.ts).
+  doc.font(fonts.regular);
+  installLayoutShortcut(doc);
+  doc.font(fonts.bold);
+  installLayoutShortcut(doc);
   doc.font(fonts.regular).fontSize(9.5).fillColor(palette.ink);
 
   const writer = new PageWriter(doc);
   const steps: ((w: PageWriter, c: PacketContent, r: PdfRequest) => void)[] = [
     cover,
+    (w, c) => changeSection(w, c, fonts),
     chartPage,
     approvedLimits,
     dataTable,
@@ -147,72 +156,8 @@ class PageWriter {
     this.doc.x = this.doc.page.margins.left;
   }
 
-  table(
-    columns: { header: string; width: number; align?: 'left' | 'right'; wrap?: boolean }[],
-    rows: string[][],
-    size = 7.5,
-  ): void {
-    const total = columns.reduce((sum, c) => sum + c.width, 0);
-    const scale = this.width / total;
-    const widths = columns.map((c) => c.width * scale);
-    const rowHeight = size + 4.5;
-    const left = this.doc.page.margins.left;
-    const header = () => {
-      let x = left;
-      const y = this.doc.y;
-      this.doc.rect(left, y - 1.5, this.width, rowHeight).fill('#E9ECEE');
-      this.doc.font(fonts.bold).fontSize(size).fillColor(palette.ink);
-      columns.forEach((c, i) => {
-        this.doc.text(c.header, x + 2, y + 1, {
-          width: widths[i]! - 4,
-          align: c.align ?? 'left',
-          lineBreak: false,
-          ellipsis: true,
-          height: rowHeight,
-        });
-        x += widths[i]!;
-      });
-      this.doc.y = y + rowHeight;
-    };
-    if (this.doc.y + rowHeight * 2 > this.bottom) this.doc.addPage();
-    header();
-    this.doc.font(fonts.regular).fontSize(size);
-    rows.forEach((row, r) => {
-      if (this.doc.y + rowHeight > this.bottom) {
-        this.doc.addPage();
-        header();
-        this.doc.font(fonts.regular).fontSize(size);
-      }
-      // Only the columns that may wrap are measured: measuring every cell would slow long tables.
-      let height = rowHeight;
-      columns.forEach((c, i) => {
-        if (c.wrap && row[i])
-          height = Math.max(height, this.doc.heightOfString(row[i]!, { width: widths[i]! - 4 }) + 4.5);
-      });
-      if (height > rowHeight && this.doc.y + height > this.bottom) {
-        this.doc.addPage();
-        header();
-        this.doc.font(fonts.regular).fontSize(size);
-      }
-      const y = this.doc.y;
-      if (r % 2 === 1) this.doc.rect(left, y - 1.5, this.width, height).fill('#F2F2EC');
-      this.doc.fillColor(palette.ink);
-      let x = left;
-      row.forEach((cell, i) => {
-        const wrap = columns[i]!.wrap === true;
-        this.doc.text(cell, x + 2, y + 1, {
-          width: widths[i]! - 4,
-          align: columns[i]!.align ?? 'left',
-          lineBreak: wrap,
-          ellipsis: !wrap,
-          height: wrap ? height : rowHeight,
-        });
-        x += widths[i]!;
-      });
-      this.doc.y = y + height;
-    });
-    this.doc.x = left;
-    this.doc.moveDown(0.5);
+  table(columns: TableColumn[], rows: string[][], size = 7.5): void {
+    drawTable(this.doc, columns, rows, { fonts, size });
   }
 }
 
