@@ -18,8 +18,16 @@ const format = (x: number, digits = 3) => Number(x.toPrecision(digits)).toString
  */
 export function phaseOneWarnings(result: AnalysisResult, options: AnalysisOptions): Warning[] {
   const warnings: Warning[] = [];
-  const included = result.periods.filter((p) => p.status !== 'excluded');
-  const excluded = result.periods.length - included.length;
+  // One pass over the periods for the counts and the expected counts: long histories feel each pass.
+  const expected = new Float64Array(result.periods.length);
+  let included = 0;
+  let withoutLower = 0;
+  for (const p of result.periods) {
+    if (p.status === 'excluded') continue;
+    if (p.lcl === null) withoutLower++;
+    expected[included++] = p.units * result.rate;
+  }
+  const excluded = result.periods.length - included;
 
   if (result.m < MIN_PERIODS)
     warnings.push({
@@ -32,8 +40,7 @@ export function phaseOneWarnings(result: AnalysisResult, options: AnalysisOption
       message: `${excluded} of ${result.periods.length} periods (${format((100 * excluded) / result.periods.length, 2)} %) are excluded; when more than 10 % need excluding, the process may not have been stable enough for a baseline`,
     });
 
-  const withoutLower = included.filter((p) => p.lcl === null);
-  if (withoutLower.length > 0) {
+  if (withoutLower > 0) {
     const need = unitsForLowerLimit(
       options.limits,
       result.rate,
@@ -44,15 +51,11 @@ export function phaseOneWarnings(result: AnalysisResult, options: AnalysisOption
     const bound = `${need.strict ? 'more than' : 'at least'} ${format(need.units)} inspection units per period`;
     warnings.push({
       code: 'no-lower-limit',
-      message: `${withoutLower.length === included.length ? 'no period has' : `${withoutLower.length} of ${included.length} periods have`} a lower control limit, so a drop in the rate cannot signal; a lower limit needs ${bound} at this rate`,
+      message: `${withoutLower === included ? 'no period has' : `${withoutLower} of ${included} periods have`} a lower control limit, so a drop in the rate cannot signal; a lower limit needs ${bound} at this rate`,
     });
   }
 
-  // Filled by a loop: Float64Array.from with a map function is several times slower on long histories.
-  const expected = new Float64Array(included.length);
-  for (let i = 0; i < included.length; i++) expected[i] = included[i].units * result.rate;
-  expected.sort();
-  const median = expected[Math.floor(expected.length / 2)];
+  const median = expected.subarray(0, included).sort()[Math.floor(included / 2)];
   if (median < 1)
     warnings.push({
       code: 'rare-events',

@@ -104,7 +104,8 @@ export function analyzePhaseOne(
 
   // c chart: plotted on the count scale; u chart: on the rate scale (count limits ÷ kᵢ).
   const scale = (units: number) => (chart.value === 'c' ? 1 : 1 / units);
-  const z = rawZ.map((value) => value / (sigmaZ ?? 1));
+  // Without Laney's σz the standardized values are the raw ones (x / 1 is x): no second array.
+  const z = sigmaZ === null ? rawZ : rawZ.map((value) => value / sigmaZ);
 
   const includedIndex: number[] = [];
   included.forEach((inc, i) => inc && includedIndex.push(i));
@@ -144,7 +145,8 @@ export function analyzePhaseOne(
     return period;
   });
 
-  const includedObs = includedIndex.map((i) => observations[i]);
+  const includedObs =
+    includedIndex.length === observations.length ? observations : includedIndex.map((i) => observations[i]);
   const dispersion = dispersionCheck(
     includedObs.map((o) => o.count),
     includedObs.map((o) => o.units),
