@@ -1,6 +1,9 @@
 import { createHash, randomBytes } from 'node:crypto';
+import { existsSync } from 'node:fs';
 import { readFile, rename, writeFile, unlink } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { Worker } from 'node:worker_threads';
 import { fail, ok, type Result } from '../../../shared-core/result.js';
 import { openStudyFile } from '../study-file.js';
 import type { SigningIdentity } from '../signing/signing-identity.js';
@@ -10,8 +13,7 @@ import { limitsCsv, limitsJson, limitsTable } from './limits-table.js';
 import type { PacketContent } from './packet-content.js';
 import type { PacketFacts } from './packet-facts.js';
 import { packetContent, packetRevision } from './packet-from-study.js';
-import { buildPacketPdf, type Paper } from './packet-pdf.js';
-import { buildWorkbook } from './packet-workbook.js';
+import type { Paper } from './packet-pdf.js';
 import { signPdf } from './pdf-signature.js';
 
 export interface PacketFiles {
@@ -28,6 +30,8 @@ export interface PacketOptions {
   /** The signing key, or the promise of it while it opens (drawing the packet need not wait). */
   identity?: SigningIdentity | Promise<SigningIdentity>;
   onProgress?: (fraction: number, what: string) => void;
+  /** Builds the workbook; by default in this thread. makePacket passes a worker thread's. */
+  buildWorkbook?: (content: PacketContent) => Promise<Buffer>;
 }
 
 const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
@@ -40,7 +44,11 @@ const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest(
 export async function packetFiles(content: PacketContent, options: PacketOptions): Promise<PacketFiles> {
   const progress = options.onProgress ?? (() => undefined);
   progress(0.05, 'workbook');
-  const workbook = await buildWorkbook(content);
+  const building = (options.buildWorkbook ?? buildWorkbookHere)(content);
+  building.catch(() => undefined); // awaited below; this only marks an early failure as handled
+  // pdfkit and its fonts load while the workbook is built (in a worker, on another core).
+  const { buildPacketPdf } = await import('./packet-pdf.js');
+  const workbook = await building;
   const result = content.result;
   const facts: PacketFacts = {
     format: 'limit-ledger-packet-facts',
@@ -97,6 +105,16 @@ export interface PacketRequest extends PacketOptions {
 
 /** Reads the study, makes the packet and writes every file (each atomically); returns the paths. */
 export async function makePacket(request: PacketRequest): Promise<Result<string[]>> {
+  // Started first, so that the worker loads exceljs while this thread opens the study.
+  const worker = startWorkbookWorker();
+  try {
+    return await writePacket(request, worker);
+  } finally {
+    await worker?.stop();
+  }
+}
+
+async function writePacket(request: PacketRequest, worker: WorkbookWorker | null): Promise<Result<string[]>> {
   const opened = await openStudyFile(request.studyPath);
   if (!opened.ok) return opened;
   if (opened.value.readOnly) {
@@ -123,7 +141,10 @@ export async function makePacket(request: PacketRequest): Promise<Result<string[
     generatedAt: request.now,
   });
   if (!content.ok) return content;
-  const files = await packetFiles(content.value, request);
+  const files = await packetFiles(content.value, {
+    ...request,
+    buildWorkbook: (c) => (worker ? worker.build(c) : buildWorkbookHere(c)),
+  });
   const stem = request.pdfPath.replace(/\.pdf$/i, '');
   const outputs: [string, Uint8Array | string][] = [
     [request.xlsxPath, files.workbook],
@@ -134,6 +155,54 @@ export async function makePacket(request: PacketRequest): Promise<Result<string[
   ];
   for (const [path, bytes] of outputs) await writeAtomically(path, bytes);
   return ok(outputs.map(([path]) => path));
+}
+
+async function buildWorkbookHere(content: PacketContent): Promise<Buffer> {
+  const { buildWorkbook } = await import('./packet-workbook.js');
+  return buildWorkbook(content);
+}
+
+interface WorkbookWorker {
+  build(content: PacketContent): Promise<Buffer>;
+  stop(): Promise<void>;
+}
+
+type WorkerReply = { ok: true; bytes: Uint8Array } | { ok: false; message: string };
+
+/**
+ * A worker thread that builds one workbook, or null where there is no built worker script (the
+ * TypeScript sources under test): the workbook is then built in this thread, as it is when the
+ * worker fails to start or dies.
+ */
+function startWorkbookWorker(): WorkbookWorker | null {
+  const script = new URL('./workbook-worker.js', import.meta.url);
+  if (script.protocol !== 'file:' || !existsSync(fileURLToPath(script))) return null;
+  let worker: Worker;
+  try {
+    worker = new Worker(script);
+  } catch {
+    return null;
+  }
+  let failed: Error | null = null;
+  const reply = new Promise<WorkerReply>((resolve, reject) => {
+    worker.once('message', resolve);
+    worker.once('error', (error) => reject((failed = error)));
+    worker.once('exit', (code) => reject((failed ??= new Error(`the workbook worker stopped (${code})`))));
+  });
+  reply.catch(() => undefined);
+  return {
+    async build(content) {
+      if (failed) return buildWorkbookHere(content);
+      worker.postMessage(content);
+      const answer = await reply.catch(() => null);
+      if (!answer) return buildWorkbookHere(content);
+      if (!answer.ok) throw new Error(answer.message);
+      return Buffer.from(answer.bytes.buffer, answer.bytes.byteOffset, answer.bytes.length);
+    },
+    async stop() {
+      await worker.terminate();
+    },
+  };
 }
 
 export async function writeAtomically(path: string, bytes: Uint8Array | string): Promise<void> {
