@@ -62,6 +62,27 @@ const labelCell = fc.oneof(
   },
   { weight: 1, arbitrary: fc.string({ maxLength: 5 }) },
 );
+/** ISO dates mostly (the one-pass reader takes those), with others that go the general way. */
+const dateCell = fc.oneof(
+  {
+    weight: 8,
+    arbitrary: fc
+      .integer({ min: 0, max: 60 })
+      .map((day) => new Date(Date.UTC(2026, 0, 5) + day * 86_400_000).toISOString().slice(0, 10)),
+  },
+  {
+    weight: 1,
+    arbitrary: fc.constantFrom(
+      '2026-02-29',
+      '2026-13-01',
+      ' 2026-03-02',
+      '2026/03/02',
+      '03/04/2026',
+      '',
+      '2026-3-2',
+    ),
+  },
+);
 const extraCell = fc.constantFrom('', ' ', 'note', '"n"', '');
 
 /** Cells the fast reader takes: plain numbers (some with spaces or a point), simple quotes, any label. */
@@ -79,28 +100,38 @@ const tidyLine = fc.oneof(
           fc.integer({ min: 1, max: 30 }).map(String),
           fc.constantFrom('2.5', '2.50', '2.500', '0.125', ' 8'),
         ),
+        fc.oneof({ weight: 9, arbitrary: dateCell }, { weight: 1, arbitrary: fc.constant('2026-01-05') }),
       )
       .map((cells) => [...cells]),
   },
   {
     weight: 1,
-    arbitrary: fc.constantFrom(['', '', ''], ['', '', '', 'note'], ['L9', '0', '0'], ['L8', '3', '7', '']),
+    arbitrary: fc.constantFrom(
+      ['', '', '', ''],
+      ['', '', '', '', 'note'],
+      ['L9', '0', '0', '2026-01-09'],
+      ['L8', '3', '7', '2026-01-02', ''],
+    ),
   },
 );
 
 const line = fc.oneof(
-  { weight: 12, arbitrary: fc.tuple(labelCell, countCell, unitsCell).map((cells) => [...cells]) },
+  { weight: 12, arbitrary: fc.tuple(labelCell, countCell, unitsCell, dateCell).map((cells) => [...cells]) },
   { weight: 1, arbitrary: fc.tuple(labelCell, countCell).map((cells) => [...cells]) },
-  { weight: 1, arbitrary: fc.tuple(labelCell, countCell, unitsCell, extraCell).map((cells) => [...cells]) },
+  {
+    weight: 1,
+    arbitrary: fc.tuple(labelCell, countCell, unitsCell, dateCell, extraCell).map((cells) => [...cells]),
+  },
   { weight: 1, arbitrary: fc.constantFrom([''], [' '], ['', '', ''], [' ', '', '\t']) },
 );
 
 const headers = fc.constantFrom(
+  ['lot', 'count', 'units', 'date'],
+  ['lot', 'count', 'units', 'date'],
+  ['Lot', ' count ', 'UNITS', 'Date'],
+  ['"lot"', 'count', 'units', 'date'],
+  ['lot', 'count', 'units', 'date', 'remark'],
   ['lot', 'count', 'units'],
-  ['lot', 'count', 'units'],
-  ['Lot', ' count ', 'UNITS'],
-  ['"lot"', 'count', 'units'],
-  ['lot', 'count', 'units', 'remark'],
   ['lot', 'count'],
 );
 
@@ -120,6 +151,8 @@ const file = fc.record({
     {
       units: fc.constantFrom('units', undefined),
       label: fc.constantFrom('lot', undefined),
+      date: fc.constantFrom('date', undefined),
+      dateOrder: fc.constantFrom('dmy' as const, 'mdy' as const, undefined, undefined),
       decimal: fc.constantFrom('comma' as const, 'point' as const, undefined, undefined),
       inspectionUnit: fc.constant('one board'),
     },
@@ -154,6 +187,7 @@ describe('the one-pass delimited reader (property)', () => {
     'gives the general reader’s outcome, byte for byte, or hands the file over (3,000 files)',
     async () => {
       let handled = 0;
+      let handledDated = 0;
       let runs = 0;
       await fc.assert(
         fc.asyncProperty(file, async (f) => {
@@ -187,6 +221,7 @@ describe('the one-pass delimited reader (property)', () => {
           );
           if (fast === null) return;
           handled++;
+          if (request.date !== undefined) handledDated++;
           expect(general.ok).toBe(true);
           if (general.ok) expect(JSON.stringify(fast)).toBe(JSON.stringify(general.value));
         }),
@@ -195,6 +230,7 @@ describe('the one-pass delimited reader (property)', () => {
       // Both branches are exercised: a good share of the files is read the fast way.
       expect(handled / runs).toBeGreaterThan(0.12);
       expect(handled / runs).toBeLessThan(0.9);
+      expect(handledDated / runs).toBeGreaterThan(0.04);
     },
     propertyTimeout,
   );

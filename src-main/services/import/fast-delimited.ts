@@ -9,7 +9,12 @@ import type {
   ImportWarning,
 } from '../../../shared-core/import/import-report.js';
 import type { ImportSettings } from '../../../shared-core/import/import-settings.js';
-import { duplicateLabelWarnings } from '../../../shared-core/import/period-checks.js';
+import { chooseDateOrder, isoDate, type DateOrderChoice } from '../../../shared-core/import/date-text.js';
+import {
+  dateGapWarnings,
+  dateOrderWarnings,
+  duplicateLabelWarnings,
+} from '../../../shared-core/import/period-checks.js';
 import { appendCapped } from '../../../shared-core/import/read-observations.js';
 import type { Observation } from '../../../shared-core/study/analysis-types.js';
 import { delimiterOfRecords, detectDelimiter, detectionRecords } from './delimited-table.js';
@@ -24,6 +29,7 @@ type TextSource = Omit<TableSource, 'delimiter' | 'delimiterSource'>;
 const canonicalWhole = /^(?:0|[1-9]\d{0,14})$/;
 /** A plain decimal with a point: "2.5", "0.125". */
 const plainDecimal = /^\d{1,15}\.\d{1,15}$/;
+const isoDay = /^\d{4}-\d{2}-\d{2}$/;
 const delimiters = new Set([',', ';', '\t', '|']);
 
 /** Thrown inside the reader to hand the file over to the general reader. */
@@ -115,14 +121,23 @@ class LineCells {
   scan(start: number, end: number): void {
     const { text, delimiter, width, columns, starts, ends } = this;
     this.fieldsOfLine = null;
-    starts[0] = starts[1] = starts[2] = -1;
+    starts[0] = starts[1] = starts[2] = starts[3] = -1;
     this.extra = false;
     let index = 0;
     let from = start;
     for (;;) {
       let to = text.indexOf(delimiter, from);
       if (to < 0 || to > end) to = end;
-      const wanted = index === columns[0] ? 0 : index === columns[1] ? 1 : index === columns[2] ? 2 : -1;
+      const wanted =
+        index === columns[0]
+          ? 0
+          : index === columns[1]
+            ? 1
+            : index === columns[2]
+              ? 2
+              : index === columns[3]
+                ? 3
+                : -1;
       if (wanted >= 0) {
         starts[wanted] = from;
         ends[wanted] = to;
@@ -142,7 +157,7 @@ class LineCells {
     this.extra = fields.length > this.width && !isBlankFields(fields.slice(this.width));
   }
 
-  /** The text of wanted cell `k` (0 count, 1 units, 2 label), or undefined when the line is short. */
+  /** The text of wanted cell `k` (0 count, 1 units, 2 label, 3 date), or undefined when the line is short. */
   cell(k: number): string | undefined {
     if (this.fieldsOfLine !== null) return this.fieldsOfLine[k];
     return this.starts[k] < 0 ? undefined : this.text.slice(this.starts[k], this.ends[k]);
@@ -204,10 +219,10 @@ function detectedDelimiter(text: string, newline: string): string {
  *
  * Taken here: UTF-8 or any text `decodeText` gave, "\n" or "\r\n" breaks, the header on the first
  * line, plain or simply quoted fields, counts written as plain whole numbers, units as whole numbers
- * or plain decimals with a point, labels as any text, blank rows, cells beyond the header. Handed
- * over: a `sep=` line, titles above the header, dates, a cell that is blank, negative, not a plain
- * number or otherwise rejected, decimal commas, thousands separators, quotes the rules above do not
- * cover, too many rows.
+ * or plain decimals with a point, labels as any text, dates as yyyy-mm-dd, blank rows, cells beyond
+ * the header. Handed over: a `sep=` line, titles above the header, other dates, a cell that is
+ * blank, negative, not a plain number or otherwise rejected, decimal commas, thousands separators,
+ * quotes the rules above do not cover, too many rows.
  */
 export function fastDelimitedOutcome(
   text: string,
@@ -233,7 +248,7 @@ function readFast(
 ): ImportOutcome | null {
   const { count, units, label, date, decimal: givenDecimal, inspectionUnit } = request;
   // papaparse drops a leading U+FEFF; a text that still has one after decoding goes the general way.
-  if (date !== undefined || text.startsWith('sep=') || text.charCodeAt(0) === 0xfeff) return null;
+  if (text.startsWith('sep=') || text.charCodeAt(0) === 0xfeff) return null;
   if (request.delimiter !== undefined && !delimiters.has(request.delimiter)) return null;
   const newline = lineBreak(text);
   if (newline === null) return null;
@@ -241,7 +256,7 @@ function readFast(
 
   const firstEnd = text.indexOf(newline);
   const headerFields = splitLine(firstEnd < 0 ? text : text.slice(0, firstEnd), delimiter);
-  const names = [count, units, label].filter(
+  const names = [count, units, label, date].filter(
     (name): name is string => typeof name === 'string' && name !== '',
   );
   if (findHeader([headerFields], names) !== 0) return null;
@@ -253,6 +268,9 @@ function readFast(
   const countAt = columns.count;
   const unitsAt = columns.units;
   const labelAt = columns.label;
+  const dateAt = columns.date;
+  // A column that is both label and date goes the general way (one cell, two readings).
+  if (dateAt !== undefined && dateAt === labelAt) return null;
 
   const observations: Observation[] = [];
   const noProduction: Observation[] = [];
@@ -267,7 +285,7 @@ function readFast(
   let start = firstEnd < 0 ? text.length : firstEnd + newline.length;
   const step = newline.length;
 
-  const cells = new LineCells(text, delimiter, width, [countAt, unitsAt ?? -1, labelAt ?? -1]);
+  const cells = new LineCells(text, delimiter, width, [countAt, unitsAt ?? -1, labelAt ?? -1, dateAt ?? -1]);
   let nextQuote = text.indexOf('"', start);
   while (start < text.length) {
     let end = text.indexOf(newline, start);
@@ -330,12 +348,26 @@ function readFast(
       if (cell !== undefined) labelText = cell.trim();
       if (labelText === '') blankLabelRows.push(row);
     }
+    let dateText: string | undefined;
+    if (dateAt !== undefined) {
+      dateText = cells.cell(3)?.trim();
+      // Only ISO dates as the general reader writes them back (yyyy-mm-dd, a real day): no change.
+      if (dateText === undefined || !isoDay.test(dateText)) return null;
+      const resolved = isoDate(
+        Number(dateText.slice(0, 4)),
+        Number(dateText.slice(5, 7)),
+        Number(dateText.slice(8)),
+        undefined,
+      );
+      if (!('date' in resolved) || resolved.date !== dateText) return null;
+    }
     const observation: Observation = {
       label: labelText === '' ? `#${row}` : labelText,
       row,
       count: countValue,
       units: unitsValue,
     };
+    if (dateText !== undefined) observation.date = dateText;
     (unitsValue === 0 ? noProduction : observations).push(observation);
   }
 
@@ -360,6 +392,19 @@ function readFast(
     }
   }
 
+  let order: DateOrderChoice | undefined;
+  if (dateAt !== undefined) {
+    // Every date is ISO, so the order is what the general reader chooses for no numeric date.
+    order = chooseDateOrder([], request.dateOrder);
+    if (order.kind !== 'chosen') return null;
+    const column = header[dateAt];
+    const inFileOrder = observations.concat(noProduction).sort((a, b) => a.row - b.row);
+    appendCapped(warnings, dateOrderWarnings(inFileOrder, column));
+    observations.sort(byDateThenRow);
+    noProduction.sort(byDateThenRow);
+    appendCapped(warnings, dateGapWarnings(observations.concat(noProduction).sort(byDateThenRow), column));
+  }
+
   const rejected: ImportOutcome['rejected'] = [];
   const report: ImportReport = {
     file,
@@ -378,6 +423,9 @@ function readFast(
       decimal: decimal.decimal,
       decimalSource: decimal.source,
       decimalReason: decimal.reason,
+      ...(order?.kind !== 'chosen'
+        ? {}
+        : { dateOrder: order.order, dateOrderSource: order.source, dateOrderReason: order.reason }),
       ...(inspectionUnit === undefined ? {} : { inspectionUnit }),
       format: source.format,
       encoding: source.encoding,
@@ -389,6 +437,12 @@ function readFast(
     warnings,
   };
   return { observations, rejected, noProduction, report };
+}
+
+/** Date order, then file order among periods of the same date (as the general reader sorts). */
+function byDateThenRow(a: Observation, b: Observation): number {
+  if (a.date !== b.date) return (a.date ?? '') < (b.date ?? '') ? -1 : 1;
+  return a.row - b.row;
 }
 
 /**
