@@ -92,6 +92,11 @@ async function analyze(argv: string[]): Promise<number> {
     if (!saved.ok) throw new InputError(saved.findings.map(describeFinding).join('\n'));
   }
   if (values.json) {
+    // A reader that stops early (`| head`) closes the pipe: that ends the output, quietly.
+    process.stdout.on('error', (error: NodeJS.ErrnoException) => {
+      if (error.code !== 'EPIPE') throw error;
+      process.exit(0);
+    });
     // Written in chunks of bytes as it is made: a long history's text is never held as one string.
     writeAnalysisJson(result.value, outcome, iterations, (bytes) => process.stdout.write(bytes));
     process.stdout.write('\n');
