@@ -45,38 +45,26 @@ export async function packetFiles(content: PacketContent, options: PacketOptions
   const progress = options.onProgress ?? (() => undefined);
   progress(0.05, 'workbook');
   const building = (options.buildWorkbook ?? buildWorkbookHere)(content);
-  building.catch(() => undefined); // awaited below; this only marks an early failure as handled
-  // pdfkit and its fonts load while the workbook is built (in a worker, on another core).
+  // pdfkit loads and the PDF's fonts open while the workbook is built (in a worker, on another core).
+  const stated = building.then((workbook) => {
+    progress(0.25, 'PDF');
+    return { workbook, facts: packetFacts(content, workbook) };
+  });
+  stated.catch(() => undefined); // awaited below; this only marks an early failure as handled
   const { buildPacketPdf } = await import('./packet-pdf.js');
-  const workbook = await building;
-  const result = content.result;
-  const facts: PacketFacts = {
-    format: 'limit-ledger-packet-facts',
-    version: 1,
-    studyId: content.studyId,
-    revision: content.revision.number,
-    chart: result.chart,
-    limits: result.limits,
-    center: result.center,
-    rate: result.rate,
-    table: limitsTable(result),
-    periods: result.periods.map((p) => ({ label: p.label, lcl: p.lcl, ucl: p.ucl, status: p.status })),
-    studySha256: content.studyDocument ? sha256(content.studyDocument.bytes) : null,
-    workbookSha256: sha256(workbook),
-    generatedAt: content.generatedAt,
-  };
-  progress(0.25, 'PDF');
   let pdf = await buildPacketPdf(content, {
     paper: options.paper,
-    facts,
+    facts: stated.then((s) => s.facts),
     onProgress: (f) => progress(0.25 + f * 0.6, 'PDF'),
   });
+  const { workbook, facts } = await stated;
   if (options.identity) {
     progress(0.88, 'signature');
     pdf = await signPdf(pdf, await options.identity, {
       reason: `Approval packet, study ${content.studyId}, revision ${content.revision.number}`,
     });
   }
+  const result = content.result;
   const unit = content.identity.inspectionUnit || 'inspection unit';
   const drawing = layoutChart(
     result,
@@ -92,6 +80,26 @@ export async function packetFiles(content: PacketContent, options: PacketOptions
     csv: limitsCsv(result, unit),
     json: limitsJson(result, unit, content.studyId),
     svg: chartSvg(drawing, `${result.chart} chart: ${content.title}`),
+  };
+}
+
+/** What the PDF states for verify, with the SHA-256 of the workbook exported beside it. */
+function packetFacts(content: PacketContent, workbook: Buffer): PacketFacts {
+  const result = content.result;
+  return {
+    format: 'limit-ledger-packet-facts',
+    version: 1,
+    studyId: content.studyId,
+    revision: content.revision.number,
+    chart: result.chart,
+    limits: result.limits,
+    center: result.center,
+    rate: result.rate,
+    table: limitsTable(result),
+    periods: result.periods.map((p) => ({ label: p.label, lcl: p.lcl, ucl: p.ucl, status: p.status })),
+    studySha256: content.studyDocument ? sha256(content.studyDocument.bytes) : null,
+    workbookSha256: sha256(workbook),
+    generatedAt: content.generatedAt,
   };
 }
 

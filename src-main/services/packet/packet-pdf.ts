@@ -29,10 +29,16 @@ const fontFiles = {
 const fonts = { regular: 'Body', bold: 'Body-Bold' };
 const margin = 50;
 
-/** The approval packet as an (unsigned) PDF in memory; pdf-signature.ts signs it. */
-export function buildPacketPdf(content: PacketContent, request: PdfRequest): Promise<Buffer> {
+/**
+ * The approval packet as an (unsigned) PDF in memory; pdf-signature.ts signs it. The facts may
+ * still be on their way (the workbook's hash): the document and its fonts are prepared meanwhile.
+ */
+export async function buildPacketPdf(
+  content: PacketContent,
+  pending: Omit<PdfRequest, 'facts'> & { facts: PacketFacts | Promise<PacketFacts> },
+): Promise<Buffer> {
   const doc = new PDFDocument({
-    size: request.paper === 'a4' ? 'A4' : 'LETTER',
+    size: pending.paper === 'a4' ? 'A4' : 'LETTER',
     margins: { top: margin + 14, bottom: margin + 10, left: margin, right: margin },
     bufferPages: true,
     autoFirstPage: true,
@@ -55,11 +61,16 @@ export function buildPacketPdf(content: PacketContent, request: PdfRequest): Pro
   doc.registerFont(fonts.regular, fontFiles.regular);
   doc.registerFont(fonts.bold, fontFiles.bold);
   // Numbers and labels skip OpenType shaping that cannot change them (pdf-text-layout.ts).
+  // Measuring a word decodes each font's substitution and positioning tables, which the first
+  // text would otherwise wait for; it adds nothing to the page or to the embedded subset.
   doc.font(fonts.regular);
   installLayoutShortcut(doc);
+  doc.widthOfString('Approval');
   doc.font(fonts.bold);
   installLayoutShortcut(doc);
+  doc.widthOfString('Approval');
   doc.font(fonts.regular).fontSize(9.5).fillColor(palette.ink);
+  const request: PdfRequest = { ...pending, facts: await pending.facts };
 
   const writer = new PageWriter(doc);
   const steps: ((w: PageWriter, c: PacketContent, r: PdfRequest) => void)[] = [
