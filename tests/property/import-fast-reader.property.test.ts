@@ -62,14 +62,13 @@ const labelCell = fc.oneof(
   },
   { weight: 1, arbitrary: fc.string({ maxLength: 5 }) },
 );
-/** ISO dates mostly (the one-pass reader takes those), with others that go the general way. */
+/** Real days as yyyy-mm-dd (the one-pass reader takes those), in and out of order, with gaps. */
+const isoDayCell = fc
+  .integer({ min: 0, max: 60 })
+  .map((day) => new Date(Date.UTC(2026, 0, 5) + day * 86_400_000).toISOString().slice(0, 10));
+/** ISO dates mostly, with others that go the general way. */
 const dateCell = fc.oneof(
-  {
-    weight: 8,
-    arbitrary: fc
-      .integer({ min: 0, max: 60 })
-      .map((day) => new Date(Date.UTC(2026, 0, 5) + day * 86_400_000).toISOString().slice(0, 10)),
-  },
+  { weight: 8, arbitrary: isoDayCell },
   {
     weight: 1,
     arbitrary: fc.constantFrom(
@@ -100,7 +99,7 @@ const tidyLine = fc.oneof(
           fc.integer({ min: 1, max: 30 }).map(String),
           fc.constantFrom('2.5', '2.50', '2.500', '0.125', ' 8'),
         ),
-        fc.oneof({ weight: 9, arbitrary: dateCell }, { weight: 1, arbitrary: fc.constant('2026-01-05') }),
+        isoDayCell,
       )
       .map((cells) => [...cells]),
   },
@@ -230,7 +229,7 @@ describe('the one-pass delimited reader (property)', () => {
       // Both branches are exercised: a good share of the files is read the fast way.
       expect(handled / runs).toBeGreaterThan(0.12);
       expect(handled / runs).toBeLessThan(0.9);
-      expect(handledDated / runs).toBeGreaterThan(0.04);
+      expect(handledDated / runs).toBeGreaterThan(0.03);
     },
     propertyTimeout,
   );
