@@ -55,6 +55,23 @@ export function eventInWords(
     }
     case 'redo':
       return { action: 'Redo', detail: `takes back the undo in entry ${event.payload.target}` };
+    case 'split-added':
+      return {
+        action: 'New segment',
+        detail: `from ${event.payload.label}, with limits of its own: ${event.why}`,
+      };
+    case 'split-removed':
+      return {
+        action: 'Segments joined',
+        detail: `${event.payload.label} no longer starts a segment${event.why ? `: ${event.why}` : ''}`,
+      };
+    case 'periods-added': {
+      const { observationCount, file, firstIndex } = event.payload;
+      return {
+        action: 'Periods added',
+        detail: `${observationCount} period${observationCount === 1 ? '' : 's'} from ${file}, from period ${firstIndex + 1} on`,
+      };
+    }
     case 'iteration':
       return {
         action: `Recompute ${event.payload.number}`,

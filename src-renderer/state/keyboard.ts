@@ -36,6 +36,8 @@ export function handleGlobalKey(event: KeyboardEvent): void {
   if (event.key === 'Escape') {
     if (navigation.shortcutsOpen) navigation.shortcutsOpen = false;
     else if (review.excludeFormOpen) review.excludeFormOpen = false;
+    else if (review.splitFormOpen) review.splitFormOpen = false;
+    else if (review.confirmingRemoval !== null) review.confirmingRemoval = null;
     return;
   }
   if (command || event.altKey || typingInField(event.target)) return;
@@ -46,12 +48,17 @@ export function handleGlobalKey(event: KeyboardEvent): void {
   }
   if (navigation.screen !== 'review') return;
   const key = event.key.toLowerCase();
-  const period = study.selected === null ? undefined : study.result?.periods[study.selected];
+  const period = study.periodAt(study.selected);
   if (key === 's') study.view.standardized = !study.view.standardized;
-  else if (key === 'x' && period && period.status !== 'excluded') review.excludeFormOpen = true;
-  else if (key === 'r' && period && period.status === 'excluded') {
+  else if (key === 'x' && period && period.status !== 'excluded') {
+    review.splitFormOpen = false;
+    review.excludeFormOpen = true;
+  } else if (key === 'r' && period && period.status === 'excluded') {
     study.reinstate(period.index);
     review.announce(`${period.label} reinstated. Limits recomputed.`);
+  } else if (key === 'n' && period && period.index > 0 && !study.splitOf(period.index)) {
+    review.excludeFormOpen = false;
+    review.splitFormOpen = true;
   } else return;
   event.preventDefault();
 }

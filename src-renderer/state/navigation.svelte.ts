@@ -30,6 +30,7 @@ export const shortcuts: { keys: string; does: string }[] = [
   { keys: 'Home / End (on the chart)', does: 'Select the first or last period' },
   { keys: 'X', does: 'Exclude the selected period (asks for the assignable cause)' },
   { keys: 'R', does: 'Reinstate the selected period' },
+  { keys: 'N', does: 'Start a new segment at the selected period (asks for the process change)' },
   { keys: 'S', does: 'Switch between the plotted and the standardized view' },
   { keys: '?', does: 'Show or hide this list' },
   { keys: 'Esc', does: 'Close a dialog or form' },

@@ -1,4 +1,10 @@
-import { analyzePhaseOne } from '../../shared-core/study/phase-one.js';
+import {
+  analyzeSegments,
+  segmentPeriods,
+  segmentOf,
+  type SegmentResult,
+  type Split,
+} from '../../shared-core/study/segments.js';
 import {
   defaultOptions,
   type AnalysisOptions,
@@ -6,6 +12,7 @@ import {
   type AssignableCause,
   type Iteration,
   type Observation,
+  type PeriodResult,
 } from '../../shared-core/study/analysis-types.js';
 import type { Finding, Result } from '../../shared-core/result.js';
 import { iterationSnapshot } from '../../shared-core/study/iteration-history.js';
@@ -49,9 +56,12 @@ function withoutUndefined<T extends object>(value: T): T {
 
 /**
  * The open study as the screens see it. The record is the study document with its audit chain;
- * every decision (exclusion, reinstatement, correction, method change, undo, redo) is appended to
- * it through the core's study-state functions, and the analysis is recomputed in the page from the
- * pure core, so an exclusion redraws without a round trip to the host.
+ * every decision (exclusion, reinstatement, correction, method change, split, undo, redo) is
+ * appended to it through the core's study-state functions, and the analysis is recomputed in the
+ * page from the pure core, so an exclusion redraws without a round trip to the host.
+ *
+ * A split history is analyzed segment by segment: the chart and table show every segment with its
+ * own limits (`chartPeriods`), while `result` is the current (last) segment alone.
  */
 export class StudyState {
   meta = $state<StudyMeta>({ name: '', unit: 'inspection unit', demo: false });
@@ -61,6 +71,8 @@ export class StudyState {
   selected = $state<number | null>(null);
   /** Every recompute of this session: the first is the study as opened. */
   iterations = $state.raw<Iteration[]>([]);
+  /** The first period of the segment each recompute in `iterations` was of (same order). */
+  iterationStarts = $state.raw<number[]>([]);
   user = $state('engineer');
   readOnly = $state(false);
   openFindings = $state.raw<Finding[]>([]);
@@ -92,16 +104,71 @@ export class StudyState {
     distinct(this.observations.flatMap((o) => Object.keys(o.categories ?? {}))),
   );
 
-  readonly analysis: Result<AnalysisResult> = $derived(
+  /** Where the history starts a new segment with limits of its own (a known process change). */
+  readonly splits: Split[] = $derived(this.state?.splits ?? []);
+
+  /** Each segment analyzed on its own (one segment when the history has no split). */
+  readonly segmentAnalysis: Result<SegmentResult[]> = $derived(
     this.charted.length === 0
       ? {
           ok: false as const,
           findings: [{ message: 'The study has no periods yet: import a history on the Data screen.' }],
         }
-      : analyzePhaseOne(this.charted, this.exclusions, this.options),
+      : analyzeSegments(this.charted, this.exclusions, this.options, this.splits),
+  );
+
+  readonly segments: SegmentResult[] = $derived(this.segmentAnalysis.ok ? this.segmentAnalysis.value : []);
+
+  /** Every period of the history in order, each with its own segment's center and limits. */
+  readonly chartPeriods: PeriodResult[] = $derived(
+    this.segments.length === 0 ? [] : segmentPeriods(this.segments),
+  );
+
+  /**
+   * The current segment's analysis: the last segment, the process as it now runs. It is what a
+   * revision approves, what the checks judge and what sign-off signs; with no split it is the whole
+   * history.
+   */
+  readonly analysis: Result<AnalysisResult> = $derived(
+    this.segmentAnalysis.ok
+      ? { ok: true as const, value: this.segmentAnalysis.value[this.segmentAnalysis.value.length - 1].result }
+      : this.segmentAnalysis,
   );
 
   readonly result: AnalysisResult | null = $derived(this.analysis.ok ? this.analysis.value : null);
+
+  /** The current segment (the last), or null when nothing could be analyzed. */
+  readonly currentSegment: SegmentResult | null = $derived(this.segments.at(-1) ?? null);
+
+  /**
+   * The recomputes of the current segment, with their place in `iterations`: the recompute strip
+   * follows the current segment, never comparing limits of different segments.
+   */
+  readonly currentIterations: { iteration: Iteration; step: number }[] = $derived(
+    this.iterations
+      .map((iteration, step) => ({ iteration, step }))
+      .filter(({ step }) => this.iterationStarts[step] === (this.currentSegment?.start ?? 0)),
+  );
+
+  /** The current segment's first and last period labels ("W14–W26"), or '' without a segment. */
+  readonly currentRange: string = $derived(
+    this.result ? `${this.result.periods[0].label}–${this.result.periods.at(-1)!.label}` : '',
+  );
+
+  /** The period at a position of the whole history (positions and indices coincide). */
+  periodAt(position: number | null): PeriodResult | undefined {
+    return position === null ? undefined : this.chartPeriods[position];
+  }
+
+  /** The segment a period belongs to. */
+  segmentOf(index: number): SegmentResult | undefined {
+    return this.segments.length === 0 ? undefined : segmentOf(this.segments, index);
+  }
+
+  /** The split that starts a segment at period `index`, if there is one. */
+  splitOf(index: number): Split | undefined {
+    return this.splits.find((split) => split.index === index);
+  }
 
   /** Opens a study the host handed over (the demo, an opened file, an import). */
   loadView(view: StudyView, demo = false): void {
@@ -199,6 +266,18 @@ export class StudyState {
     return this.#apply((doc) => decisions.addNote(doc, { who: this.user, index, text }, now()));
   }
 
+  /** Starts a new segment at period `index`: a known process change, for `reason`. */
+  split(index: number, reason: string): boolean {
+    return this.#apply((doc) => decisions.splitAt(doc, { who: this.user, why: reason, index }, now()));
+  }
+
+  /** Joins the segment starting at period `index` to the one before it. */
+  removeSplit(index: number, reason?: string): boolean {
+    return this.#apply((doc) =>
+      decisions.removeSplit(doc, { who: this.user, index, ...(reason ? { why: reason } : {}) }, now()),
+    );
+  }
+
   undo(): boolean {
     return this.#apply((doc) => decisions.undo(doc, this.user, now()));
   }
@@ -240,12 +319,15 @@ export class StudyState {
     this.lastProblem = '';
     this.selected = null;
     this.iterations = [];
+    this.iterationStarts = [];
     this.#snapshot();
   }
 
   #snapshot(): void {
     const result = this.result;
-    if (result) this.iterations = [...this.iterations, iterationSnapshot(result)];
+    if (!result) return;
+    this.iterations = [...this.iterations, iterationSnapshot(result)];
+    this.iterationStarts = [...this.iterationStarts, this.currentSegment?.start ?? 0];
   }
 
   #freshDocument(
