@@ -102,6 +102,29 @@ async function sign(page: Page, who: string, meaning: string, key: string): Prom
   return outcome.innerText();
 }
 
+/** The ratio, interval and p-value the screen shows, against rateRatioTest on the same totals. */
+async function expectComparison(
+  page: Page,
+  base: { count: number; units: number },
+  changed: { count: number; units: number },
+) {
+  const expected = rateRatioTest(base, changed);
+  if (!expected.ok) throw new Error('the test refused the totals');
+  const words = await page.locator('[data-testid="ratio-words"]').innerText();
+  const shown =
+    /new rate is ([\d.]+) times the approved one \(95 % interval ([\d.]+) to ([\d.]+); p (=|<) ([\d.]+)\)/.exec(
+      words,
+    );
+  expect(shown, words).not.toBeNull();
+  expect(Number(shown![1])).toBeCloseTo(expected.value.ratio!, 2);
+  expect(Number(shown![2])).toBeCloseTo(expected.value.ciLow, 2);
+  expect(Number(shown![3])).toBeCloseTo(expected.value.ciHigh!, 2);
+  expect(expected.value.pValue).toBeLessThan(0.05);
+  // The p-value is shown to two significant digits, or as "< 0.0001".
+  if (shown![4] === '<') expect(expected.value.pValue).toBeLessThan(Number(shown![5]));
+  else expect(Number(shown![5]) / expected.value.pValue).toBeCloseTo(1, 1);
+}
+
 async function audit(page: Page, name: string) {
   for (const size of [
     { width: 1280, height: 800 },
@@ -211,26 +234,14 @@ describe.skipIf(!hasChromium || !hasServe)('a change of approved limits, against
       await page.locator('[data-testid="change-evidence"]').waitFor();
 
       // The evidence, against the exact test computed here from the same counts.
-      const expected = rateRatioTest(
-        {
-          count: demoObservations.reduce((s, o) => s + o.count, 0),
-          units: demoObservations.reduce((s, o) => s + o.units, 0),
-        },
-        { count: newBlemishes.reduce((s, c) => s + c, 0), units: newPanels.reduce((s, k) => s + k, 0) },
-      );
-      if (!expected.ok) throw new Error('the test refused the totals');
-      const words = await page.locator('[data-testid="ratio-words"]').innerText();
-      const shown =
-        /new rate is ([\d.]+) times the approved one \(95 % interval ([\d.]+) to ([\d.]+); p (=|<) ([\d.]+)\)/.exec(
-          words,
-        );
-      expect(shown, words).not.toBeNull();
-      expect(Number(shown![1])).toBeCloseTo(expected.value.ratio!, 2);
-      expect(Number(shown![2])).toBeCloseTo(expected.value.ciLow, 2);
-      expect(Number(shown![3])).toBeCloseTo(expected.value.ciHigh!, 2);
-      expect(expected.value.pValue).toBeLessThan(0.05);
-      if (shown![4] === '<') expect(expected.value.pValue).toBeLessThan(Number(shown![5]));
-      else expect(Number(shown![5]) / expected.value.pValue).toBeCloseTo(1, 1);
+      const base = {
+        count: demoObservations.reduce((s, o) => s + o.count, 0),
+        units: demoObservations.reduce((s, o) => s + o.units, 0),
+      };
+      await expectComparison(page, base, {
+        count: newBlemishes.reduce((s, c) => s + c, 0),
+        units: newPanels.reduce((s, k) => s + k, 0),
+      });
       expect(await page.locator('[data-testid="limits-comparison"] tbody tr').count()).toBeGreaterThan(0);
       expect(await page.locator('[data-testid="arl-table"] tbody tr').count()).toBe(4);
       await page.locator('[data-testid="arl-curve"] svg').waitFor();
@@ -241,6 +252,32 @@ describe.skipIf(!hasChromium || !hasServe)('a change of approved limits, against
       await audit(page, 'changes-evidence');
       await page.locator('[data-testid="arl-table"]').scrollIntoViewIfNeeded();
       await screenshot(page, 'changes-evidence-arl');
+
+      // The draft's own Phase I is the Review flow on the last segment: exclude the planted N07
+      // with its cause there, and the evidence follows.
+      await page.locator('[data-testid="go-draft-review"]').click();
+      await page.locator('[data-testid="control-chart"][data-ready="true"]').waitFor();
+      const review = page.locator('[data-testid="review-summary"]');
+      await expect.poll(() => review.innerText()).toContain('2 segments');
+      expect(await review.innerText()).toContain('m = 20 included');
+      // From the keyboard on the chart: End is N20, thirteen steps back is N07.
+      await page.locator('[data-testid="chart-focus"]').focus();
+      await page.keyboard.press('End');
+      for (let i = 0; i < 13; i++) await page.keyboard.press('ArrowLeft');
+      expect(await page.locator('[data-testid="details-label"]').innerText()).toContain('N07');
+      await page.locator('[data-testid="open-exclude"]').click();
+      await page.locator('[data-testid="cause-category"]').selectOption('Machine');
+      await page
+        .locator('[data-testid="cause-description"]')
+        .fill('Burner 2 tripped during the trial (invented)');
+      await page.locator('[data-testid="confirm-exclude"]').click();
+      await expect.poll(() => review.innerText()).toContain('m = 19 included');
+      await page.keyboard.press('Alt+6');
+      await page.locator('[data-testid="change-evidence"]').waitFor();
+      await expectComparison(page, base, {
+        count: newBlemishes.reduce((s, c, i) => s + (i === 6 ? 0 : c), 0),
+        units: newPanels.reduce((s, k, i) => s + (i === 6 ? 0 : k), 0),
+      });
 
       // Sign the draft: prepared, then the preparer may not approve it; the approver does.
       await page.locator('[data-testid="go-signoff"]').click();
