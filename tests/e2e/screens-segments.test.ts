@@ -53,11 +53,14 @@ describe.skipIf(!hasChromium || !hasServe)('Segments on the Review screen, in Ch
       await page.keyboard.press('Home');
       for (let i = 0; i < 18; i++) await page.keyboard.press('ArrowDown');
       await expect.poll(() => page.locator('[data-testid="details-label"]').innerText()).toMatch(/^S19/);
-      await page.locator('[data-testid="open-split"]').click();
-      await page.locator('[data-testid="confirm-split"]').click();
+      expect(await page.locator('[data-testid="open-split"]').innerText()).toMatch(/new segment here/);
+      // From the keyboard: N opens the form with its field focused; Enter without a reason is refused in words.
+      await page.keyboard.press('n');
+      await page.locator('[data-testid="split-reason"]:focus').waitFor();
+      await page.keyboard.press('Enter');
       await expect.poll(() => page.locator('#split-error').innerText()).toMatch(/what changed/i);
-      await page.locator('[data-testid="split-reason"]').fill(reason);
-      await page.locator('[data-testid="confirm-split"]').click();
+      await page.keyboard.type(reason);
+      await page.keyboard.press('Enter');
 
       await expect.poll(() => page.locator('[data-testid="segment"]').count()).toBe(2);
       const shown = await shownCenters(page);
