@@ -291,6 +291,7 @@ describe.skipIf(!hasChromium || !hasServe)('a change of approved limits, against
       }
       const refused = await sign(page, 'Test Preparer', 'approved', preparerKey);
       expect(refused).toMatch(/different person/);
+      await page.locator('[data-testid="signoff-error"]').scrollIntoViewIfNeeded();
       await screenshot(page, 'changes-signoff-refused');
       expect(await sign(page, 'Test Approver', 'approved', approverKey)).toContain('Signed as approved');
 
