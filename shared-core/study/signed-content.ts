@@ -17,17 +17,19 @@ import type { Study } from './study-schema.js';
 export function signedContent(study: Study, revision: Revision) {
   const state = deriveState(study, revision.chainHead);
   const { signOffs: _signOffs, status: _status, ...revisionFields } = revision;
+  // Periods appended after the head are not part of what was signed (an approved revision keeps its periods).
+  const imported = study.observations.slice(0, state.observations.length);
   return {
     format: 'limit-ledger/signed-content',
     version: 1,
     studyId: study.id,
     identity: study.identity,
-    observations: study.observations,
+    observations: imported,
     correctedObservations: state.observations,
     source: {
       file: study.source.file,
       sha256: study.source.sha256,
-      observationsSha256: observationsHash(study.observations),
+      observationsSha256: observationsHash(imported),
     },
     importSettings: study.source.importSettings,
     method: revision.method,

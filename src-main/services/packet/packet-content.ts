@@ -4,6 +4,9 @@ import type {
   AssignableCause,
   Iteration,
 } from '../../../shared-core/study/analysis-types.js';
+import type { ChangeEvidence } from '../../../shared-core/changes/change-evidence.js';
+import type { ReasonCategory } from '../../../shared-core/study/revision-schema.js';
+import type { ArlCurve } from '../../../shared-core/view/arl-curve.js';
 
 /** How a sign-off stands when the packet is made (see sign-off checks). */
 export type SignOffState = 'valid' | 'void' | 'invalid';
@@ -58,6 +61,32 @@ export interface PacketContent {
   audit: { seq: number; time: string; who: string; what: string; hash: string }[];
   /** ISO date-time with zone of when the packet is made. */
   generatedAt: string;
+  /** Present when the revision supersedes an approved one: the packet is a change packet. */
+  change?: ChangeContent;
   /** The study document, embedded in the PDF so that the packet alone is the whole record. */
   studyDocument?: { fileName: string; bytes: Uint8Array };
+}
+
+/** The approved revision a change replaces, as it was frozen. */
+export interface SupersededRevision {
+  id: string;
+  number: number;
+  effectiveDate?: string;
+  reviewDate?: string;
+  options: AnalysisOptions;
+  /** Its analysis recomputed at its anchor (and checked against the center it signed). */
+  result: AnalysisResult;
+  signOffs: SignOffLine[];
+}
+
+/** What a change packet adds: why the limits change, what they replace and the evidence for it. */
+export interface ChangeContent {
+  reasonCategory?: ReasonCategory;
+  /** The category in words (revision-schema's reasonForChangeList). */
+  reasonWords?: string;
+  reason: string;
+  approved: SupersededRevision;
+  evidence: ChangeEvidence;
+  /** Run lengths of both sets over a range of rates, for the curve; null when the rules forbid. */
+  arlCurve: ArlCurve | null;
 }

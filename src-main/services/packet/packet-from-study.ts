@@ -6,12 +6,23 @@ import type { Study } from '../../../shared-core/study/study-schema.js';
 import type { AuditEvent } from '../../../shared-core/study/audit-event.js';
 import { fail, ok, type Result } from '../../../shared-core/result.js';
 import { revisionAnalysis, signOffStates } from '../signing/sign-off.js';
-import type { PacketContent } from './packet-content.js';
+import type { ChangeContent, PacketContent } from './packet-content.js';
+import type { AnalysisResult } from '../../../shared-core/study/analysis-types.js';
+import { approvedBaseline } from '../../../shared-core/changes/approved-baseline.js';
+import { changeEvidence } from '../../../shared-core/changes/change-evidence.js';
+import { reasonForChangeList } from '../../../shared-core/study/revision-schema.js';
+import { limitsAtUnits } from '../../../shared-core/changes/average-run-length.js';
+import { arlCurve } from '../../../shared-core/view/arl-curve.js';
 
-/** The revision a packet is made for: the approved one, else the latest draft, else the latest. */
+/**
+ * The revision a packet is made for: an open change (a draft that supersedes approved limits, the
+ * thing a manager is asked to decide), else the latest approved one, else the latest draft, else
+ * the latest.
+ */
 export function packetRevision(study: Study): Revision | undefined {
   const revisions = [...study.revisions].reverse();
   return (
+    revisions.find((r) => r.status === 'draft' && r.supersedes !== undefined) ??
     revisions.find((r) => r.status === 'approved') ??
     revisions.find((r) => r.status === 'draft') ??
     revisions[0]
@@ -51,6 +62,8 @@ export function packetContent(source: PacketSource): Result<PacketContent> {
     if (!history.ok) return fail(...history.findings);
     iterations = history.value;
   }
+  const change = revision.supersedes ? changeContent(study, revision, analysis.value) : undefined;
+  if (change && !change.ok) return change;
   const identity = study.identity;
   const title =
     [identity.part, identity.processStep, identity.characteristic].filter((s) => s.trim()).join(' · ') ||
@@ -87,8 +100,52 @@ export function packetContent(source: PacketSource): Result<PacketContent> {
       what: eventWords(event),
       hash: event.hash,
     })),
+    ...(change ? { change: change.value } : {}),
     generatedAt: source.generatedAt,
     studyDocument: { fileName: source.studyFileName, bytes: source.studyBytes },
+  });
+}
+
+/**
+ * The change section of a revision that supersedes an approved one: the reason, the approved
+ * revision as it was frozen (recomputed at its anchor by approvedBaseline, which refuses one whose
+ * periods no longer give the center it signed), and the evidence comparing the two studies.
+ */
+function changeContent(study: Study, revision: Revision, proposed: AnalysisResult): Result<ChangeContent> {
+  const baseline = approvedBaseline(study, revision.supersedes);
+  if (!baseline.ok) return baseline;
+  const approved = baseline.value.revision;
+  const evidence = changeEvidence({
+    approved: baseline.value.analysis,
+    approvedRules: approved.method.rules,
+    proposed,
+    proposedRules: revision.method.rules,
+  });
+  if (!evidence.ok) return evidence;
+  const units = evidence.value.arl?.units;
+  const curve =
+    units === undefined
+      ? null
+      : arlCurve(
+          { at: limitsAtUnits(baseline.value.analysis, units), rules: approved.method.rules },
+          { at: limitsAtUnits(proposed, units), rules: revision.method.rules },
+        );
+  const words = reasonForChangeList.find((r) => r.id === revision.reasonCategory)?.words;
+  return ok({
+    ...(revision.reasonCategory ? { reasonCategory: revision.reasonCategory } : {}),
+    ...(words ? { reasonWords: words } : {}),
+    reason: revision.reasonForChange ?? '',
+    approved: {
+      id: approved.id,
+      number: approved.number,
+      ...(approved.effectiveDate ? { effectiveDate: approved.effectiveDate } : {}),
+      ...(approved.reviewDate ? { reviewDate: approved.reviewDate } : {}),
+      options: approved.method,
+      result: baseline.value.analysis,
+      signOffs: signOffStates(study, approved),
+    },
+    evidence: evidence.value,
+    arlCurve: curve?.ok ? curve.value : null,
   });
 }
 

@@ -1,4 +1,7 @@
 import type { AnalysisResult } from '../../../shared-core/study/analysis-types.js';
+import type { AverageRunLength } from '../../../shared-core/changes/average-run-length.js';
+import type { RateRatioTest } from '../../../shared-core/changes/rate-ratio-test.js';
+import type { SignOffLine } from './packet-content.js';
 
 /** Numbers in the packet: limits to 5 significant digits, whole counts as they are. */
 export function shown(value: number | null, significant = 5): string {
@@ -68,4 +71,40 @@ export function formulaWords(result: AnalysisResult): string[] {
     `UCL = ū + ${spread}·√(ū/k) = ${u} + ${spread}·√(${u}/k)`,
     `LCL = ū − ${spread}·√(ū/k) = ${u} − ${spread}·√(${u}/k), none where this is not above 0`,
   ];
+}
+
+/** A rate ratio or its bound to 4 significant digits; "not finite" where the core reports null. */
+export function ratioShown(value: number | null): string {
+  return value === null ? 'not finite' : shown(value, 4);
+}
+
+/** The rate test, its interval and what it says, in words with its numbers. */
+export function comparisonWords(test: RateRatioTest): { test: string; interval: string; reading: string } {
+  const { total, nullProportion } = test.conditional;
+  const level = `${Math.round(test.confidence * 100)} %`;
+  return {
+    test: `Przyborowski & Wilenski (1940) exact conditional test: given N = x_approved + x_new = ${test.base.count} + ${test.new.count} = ${total}, x_new is Binomial(N, p₀) with p₀ = t_new/(t_approved + t_new) = ${shown(test.new.units, 10)}/(${shown(test.base.units, 10)} + ${shown(test.new.units, 10)}) = ${shown(nullProportion, 6)} when the rate is unchanged; two-sided p sums the outcomes no more probable than the observed one.`,
+    interval: `Clopper–Pearson (1934) ${level} interval for the binomial proportion, mapped to the ratio by R = p·t_approved/((1 − p)·t_new).`,
+    reading:
+      total === 0
+        ? 'No nonconformity was counted in either study: no comparison is possible.'
+        : test.pValue < 0.05
+          ? `The new rate (${shown(test.new.rate, 5)} per unit) differs from the approved one (${shown(test.base.rate, 5)}) by more than chance would usually give (p below 0.05, common practice).`
+          : `The new rate (${shown(test.new.rate, 5)} per unit) and the approved one (${shown(test.base.rate, 5)}) differ by no more than chance would often give (p of 0.05 or more): the data do not show that the rate changed.`,
+  };
+}
+
+/** How the run lengths were computed. */
+export function arlWords(arl: {
+  approved: AverageRunLength;
+  proposed: AverageRunLength;
+  units: number;
+}): string {
+  const rules = (a: AverageRunLength) => a.rules.join(', ') || 'none';
+  return `Exact Poisson run lengths at k = ${shown(arl.units, 6)} (the proposed study’s mean), each set at its own center: approved limits with rules ${rules(arl.approved)} (${arl.approved.method}), proposed limits with rules ${rules(arl.proposed)} (${arl.proposed.method}${arl.proposed.method === 'Markov chain' ? ', Champ & Woodall 1987' : ''}). A rise is over each set’s own center line.`;
+}
+
+/** One sign-off on one line: name, role, meaning, time and whether it still holds. */
+export function signOffWords(s: SignOffLine): string {
+  return `${s.meaning} by ${s.printedName} (${s.role}), ${s.time}: ${s.state === 'valid' ? 'valid' : `${s.state.toUpperCase()}${s.note ? ` (${s.note})` : ''}`}`;
 }
