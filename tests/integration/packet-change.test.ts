@@ -194,6 +194,14 @@ describe('the change packet', () => {
   });
 });
 
+describe('limit-ledger packet --help', () => {
+  it('says that a revision superseding approved limits makes a change packet', async () => {
+    const help = await runCli(['packet', '--help']);
+    expect(help.status).toBe(0);
+    expect(help.stdout.replace(/\s+/g, ' ')).toMatch(/supersedes approved limits .* change packet/);
+  });
+});
+
 describe('the Change sheet, recomputed by LibreOffice', () => {
   let sheet: ExcelJS.Worksheet;
   beforeAll(async () => {

@@ -16,10 +16,17 @@ import { exitOnInputError } from '../input-error.js';
 export const usage = `Usage: limit-ledger packet STUDY --pdf OUT.pdf --xlsx OUT.xlsx [--p12 FILE --passphrase-env VAR]
        [--paper a4|letter]
 
-  Writes the approval packet of the study's revision (the approved one, else the open draft): a
-  PDF with the chart, limits, data, exclusions, iterations, checks, sign-offs and cautions, the
-  study embedded, signed when a key is given; the workbook whose formulas recompute the limits;
-  and OUT.limits.csv, OUT.limits.json and OUT.chart.svg beside the PDF.
+  Writes the approval packet of the study's revision (an open limit change, else the approved
+  one, else the open draft): a PDF with the chart, limits, data, exclusions, iterations, checks,
+  sign-offs and cautions, the study embedded, signed when a key is given; the workbook whose
+  formulas recompute the limits; and OUT.limits.csv, OUT.limits.json and OUT.chart.svg beside it.
+
+  When the revision supersedes approved limits (limit-ledger propose), the packet is a change
+  packet, made so automatically: a "Limit change" section after the cover (the reason, the
+  approved revision it replaces with its sign-offs, limits and periods, the exact rate ratio with
+  its 95 % interval and p-value, old and new limits at typical k with wider ones flagged, run
+  lengths, the check for a step in the rate, a before/after chart) and a "Change" sheet in the
+  workbook.
 
   --pdf FILE         the PDF to write
   --xlsx FILE        the workbook to write (the PDF states its SHA-256)
