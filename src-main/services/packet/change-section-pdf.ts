@@ -94,7 +94,7 @@ export function changeSection(w: SectionWriter, c: PacketContent, fonts: PdfFont
       shown(l.proposed.center, 6),
       shown(l.proposed.lcl, 6),
       shown(l.proposed.ucl, 6),
-      l.wider ? 'WIDER: scrutinize' : 'no',
+      l.wider ? 'WIDER' : 'no',
     ]),
     8.5,
   );
