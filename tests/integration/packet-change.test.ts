@@ -180,7 +180,7 @@ describe('the change packet', () => {
     expect(flat).toMatch(/Before and after: revision 1 approved, revision 2 proposed/);
   });
 
-  it('renders the change pages to PNG (the pages are looked at by eye; LL_KEEP_PAGES=DIR keeps them)', () => {
+  it('renders the change pages to PNG (the pages are looked at by eye; LL_KEEP_PAGES=DIR keeps them and the workbook)', () => {
     run('pdftoppm', ['-png', '-r', '70', '-f', '2', '-l', '3', pdfPath, join(folder, 'change-page')]);
     const pages = readdirSync(folder)
       .filter((name) => name.startsWith('change-page') && name.endsWith('.png'))
@@ -191,6 +191,8 @@ describe('the change packet', () => {
       expect(png.subarray(1, 4).toString('latin1')).toBe('PNG');
       if (process.env.LL_KEEP_PAGES) writeFileSync(join(process.env.LL_KEEP_PAGES, page), png);
     }
+    if (process.env.LL_KEEP_PAGES)
+      writeFileSync(join(process.env.LL_KEEP_PAGES, 'change.xlsx'), readFileSync(xlsxPath));
   });
 });
 
