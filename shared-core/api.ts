@@ -412,6 +412,12 @@ export const channels = {
     response: JobStarted,
     result: CreateSigningKeyResult,
   },
+  /**
+   * Shows an exported packet in the desktop's file manager: `file` is the handle the export job's
+   * result gave back; the host reveals the path it recorded itself. The web host has no folders and
+   * refuses it.
+   */
+  revealExport: { request: z.object({ file: FileHandleId }).strict(), response: Empty },
 
   // Jobs.
   cancelJob: { request: z.object({ jobId: JobId }), response: z.object({ cancelled: z.boolean() }) },

@@ -81,6 +81,8 @@ export interface HostContext {
   keysFolder?: string;
   /** Told whenever the renderer's study gains or loses unsaved changes (the close prompt asks). */
   onUnsaved?(unsaved: boolean): void;
+  /** Shows a file in the desktop's file manager (Electron's shell); absent on the web host. */
+  revealFile?(path: string): void;
 }
 
 export type Handlers = { [C in ChannelName]: (request: ParsedRequestOf<C>) => Promise<ResponseOf<C>> };
@@ -348,6 +350,20 @@ export function createHandlers(context: HostContext): Handlers {
         },
       );
       return { jobId };
+    },
+
+    async revealExport({ file }) {
+      const entry = files.get(file);
+      // Only files an export job wrote, at the path the host recorded, are shown: never a study, a key or an upload.
+      if (entry.purpose !== purposeOfJob.exportPacket || entry.path === null)
+        throw new HostError(
+          'not-an-export',
+          `${entry.fileName}: only an exported packet can be shown in its folder`,
+        );
+      if (!context.revealFile)
+        throw new HostError('not-available', 'this host has no folders to show; the packet was downloaded');
+      context.revealFile(entry.path);
+      return {};
     },
 
     async cancelJob({ jobId }) {

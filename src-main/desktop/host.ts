@@ -24,6 +24,8 @@ export interface HostSetup {
   keysFolder?: string;
   workspaceName?: string;
   onUnsaved?(unsaved: boolean): void;
+  /** Shows a file in the desktop's file manager (the Electron host only). */
+  revealFile?(path: string): void;
   /** The module with the job task table (tests pass their own). */
   taskModule?: string;
 }
@@ -46,6 +48,7 @@ export function createHost(setup: HostSetup): HostParts {
     recovery,
     keysFolder: setup.keysFolder ?? join(dirname(setup.recoveryFolder), 'keys'),
     onUnsaved: setup.onUnsaved,
+    revealFile: setup.revealFile,
   });
   return { handlers, events, jobs, files, recovery };
 }

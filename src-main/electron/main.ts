@@ -151,6 +151,7 @@ async function start(): Promise<void> {
     picker,
     services: nodeHostServices(folders),
     recoveryFolder: folders.recovery,
+    revealFile: (path) => shell.showItemInFolder(path),
     onUnsaved(value) {
       unsaved = value;
       window?.setDocumentEdited(value);

@@ -41,7 +41,8 @@ class SignOff {
   progressMessage = $state('');
   message = $state('');
   error = $state('');
-  lastExport = $state.raw<{ fileName: string; url?: string } | null>(null);
+  /** The last export: its name, a download URL on the web host, and the host's handle to the file. */
+  lastExport = $state.raw<{ fileName: string; url?: string; handle?: string } | null>(null);
   #abort: AbortController | null = null;
   /** Web host: the file the user picked, uploaded afresh for each job (the host forgets it after one). */
   #keyFile: File | null = null;
@@ -183,7 +184,11 @@ class SignOff {
         { signal, onProgress: (f, m) => this.#progress(f, m) },
       );
       if (signature) this.packetPassphrase = '';
-      this.lastExport = { fileName: result.file.fileName, url: result.downloadUrl };
+      this.lastExport = {
+        fileName: result.file.fileName,
+        url: result.downloadUrl,
+        handle: result.file.handle,
+      };
       // On the web host the packet arrives as a download; on the desktop it is already where the user chose.
       if (result.downloadUrl) saveDownload(result.file.fileName, result.downloadUrl);
       const what = format === 'pdf' ? 'PDF packet' : 'workbook';
@@ -191,6 +196,25 @@ class SignOff {
         ? `The ${what} ${result.file.fileName} is ready, signed with certificate ${result.signedBy.slice(0, 16)}…`
         : `The ${what} ${result.file.fileName} is ready${format === 'pdf' ? ', without a PDF signature' : ''}.`;
     });
+  }
+
+  /** Only the desktop has folders to show; a download on the web host is in the browser's list. */
+  get canReveal(): boolean {
+    return (
+      hostKind === 'electron' && this.lastExport?.handle !== undefined && this.lastExport.url === undefined
+    );
+  }
+
+  /** Shows the last exported file in the desktop's file manager (the host knows where it wrote it). */
+  async revealLast(): Promise<void> {
+    const handle = this.lastExport?.handle;
+    if (!this.canReveal || handle === undefined) return;
+    this.error = '';
+    try {
+      await api.revealExport({ file: handle });
+    } catch (error) {
+      this.error = messageOf(error);
+    }
   }
 
   cancel(): void {

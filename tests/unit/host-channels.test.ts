@@ -138,6 +138,7 @@ const samples: Record<ChannelName, { request: unknown; response: unknown; result
     response: { jobId },
     result: { key: file, fingerprint: 'cd'.repeat(32), commonName: 'A. Example' },
   },
+  revealExport: { request: { file: file.handle }, response: {} },
   cancelJob: { request: { jobId }, response: { cancelled: true } },
   jobStatus: {
     request: { jobId },
