@@ -307,6 +307,11 @@ describe.skipIf(!hasChromium || !hasServe)('a change of approved limits, against
       });
       expect(verified.status, verified.stderr + verified.stdout).toBe(0);
       expect(verified.stdout + verified.stderr).not.toMatch(/the PDF is not signed/);
+      // The packet carries the change: its reason, the replaced revision and the comparison (pdftotext).
+      const text = execFileSync('pdftotext', ['-layout', pdf, '-'], { encoding: 'utf8' });
+      expect(text).toContain('Limit change');
+      expect(text).toContain('Rate comparison');
+      expect(text.replace(/\s+/g, ' ')).toContain('Burner controls replaced on furnace line 2');
 
       // Back on Changes: the approved revision is now the new one, and nothing is drafted.
       await page.keyboard.press('Alt+6');
