@@ -288,6 +288,7 @@ describe.skipIf(!hasChromium || !hasServe)('a change of approved limits, against
         expect(await changeSummary.innerText()).toContain('Burner controls replaced');
         await page.locator('[data-testid="sign-meaning"]').selectOption('approved');
         await page.locator('[data-testid="separate-roles-warning"]').waitFor();
+        await screenshot(page, 'changes-signoff-summary');
       }
       const refused = await sign(page, 'Test Preparer', 'approved', preparerKey);
       expect(refused).toMatch(/different person/);
