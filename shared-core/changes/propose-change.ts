@@ -105,6 +105,16 @@ export function proposeChange(study: Study, proposal: ChangeProposal, now: strin
 const labels = (result: AnalysisResult, included: boolean) =>
   result.periods.filter((p) => (p.status !== 'excluded') === included).map((p) => p.label);
 
+/**
+ * Why a change's draft no longer stands for its own study, or null: the split that starts its
+ * study was undone or removed, so its last segment would mix approved and new periods.
+ */
+export function changeScopeProblem(study: Study, draft: Revision, scopeStart: number): string | null {
+  if (!draft.supersedes || scopeStart === (draft.segmentStart ?? 0)) return null;
+  const label = study.observations[draft.segmentStart ?? 0]?.label ?? '?';
+  return `revision ${draft.number} is a change whose study starts at period ${label}, but the history no longer starts a segment there (the split was undone or removed): redo or restore the split, so that approved and new periods are not mixed`;
+}
+
 export interface DraftChangeEvidence extends ChangeEvidence {
   approved: ApprovedBaseline;
   proposed: AnalysisResult;
@@ -128,7 +138,9 @@ export function draftChangeEvidence(
   if (!baseline.ok) return baseline;
   const proposed = currentAnalysis(study);
   if (!proposed.ok) return proposed;
-  const { scope: _scope, ...result } = proposed.value;
+  const { scope, ...result } = proposed.value;
+  const moved = changeScopeProblem(study, draft, scope.start);
+  if (moved) return fail({ message: moved });
   const evidence = changeEvidence({
     approved: baseline.value.analysis,
     approvedRules: baseline.value.revision.method.rules,

@@ -133,6 +133,7 @@ describe('the change packet', () => {
     const change = pdfText.indexOf('Limit change');
     expect(change).toBeGreaterThan(0);
     expect(change).toBeLessThan(pdfText.indexOf('Approved limits'));
+    expect(pdfText.slice(0, change)).toMatch(/Change packet: control limits/);
     expect(pdfText).toMatch(/The process changed/);
     expect(pdfText).toMatch(/burner controls replaced on oven 2/);
     expect(pdfText).toMatch(/revision 1 \(approved\), effective 2026-12-07/);

@@ -7,7 +7,7 @@ import {
 } from '../../shared-core/changes/propose-change.js';
 import { demoStudy } from '../../shared-core/study/demo-scenario.js';
 import { revisionAnalysis } from '../../shared-core/study/revision-scope.js';
-import { addPeriods, deriveState, exclude } from '../../shared-core/study/study-state.js';
+import { addPeriods, deriveState, exclude, undo } from '../../shared-core/study/study-state.js';
 import type { Study } from '../../shared-core/study/study-schema.js';
 import { verifyStudy } from '../../shared-core/study/verify-study.js';
 import type { Result } from '../../shared-core/result.js';
@@ -139,6 +139,34 @@ describe('proposing a change of approved limits', () => {
     expect(value(revisionAnalysis(signed, revision2)).periods.map((p) => p.label)).toEqual(
       newShifts.map((s) => s.label),
     );
+  });
+
+  it('refuses the evidence and the sign-off of a change whose split was undone, rather than mix periods', () => {
+    const study = withNewData();
+    const proposed = value(
+      proposeChange(
+        study,
+        {
+          who: 'Rui Tanaka',
+          category: 'process-change',
+          reason: 'new nozzle',
+          firstIndex: firstNewPeriod(study),
+        },
+        now(12),
+      ),
+    );
+    const undone = value(undo(proposed, 'Rui Tanaka', now(13)));
+    expect(deriveState(undone).splits).toEqual([]);
+    const evidence = draftChangeEvidence(undone);
+    expect(evidence.ok).toBe(false);
+    if (!evidence.ok) expect(evidence.findings[0].message).toMatch(/no longer starts a segment/);
+    const signed = addSignOff(undone, rui, {
+      printedName: 'Rui Tanaka',
+      role: 'Quality engineer',
+      meaning: 'prepared',
+      now: now(14),
+    });
+    expect(signed.ok).toBe(false);
   });
 
   it('keeps the reason when decisions after a sign-off void the draft and it is drafted again', () => {

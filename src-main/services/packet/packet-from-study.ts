@@ -51,14 +51,22 @@ export function packetContent(source: PacketSource): Result<PacketContent> {
   const state = deriveState(study, revision.chainHead);
   const excludedBy = new Map<number, AuditEvent>();
   for (const event of anchored) if (event.type === 'excluded') excludedBy.set(event.payload.index, event);
-  const recorded = anchored.filter((e) => e.type === 'iteration');
+  // A revision of a later segment shows only the recomputations made since that segment began.
+  const start = revision.segmentStart ?? 0;
+  const segmentBegan =
+    start > 0 ? anchored.findLastIndex((e) => e.type === 'split-added' && e.payload.index === start) : -1;
+  const recorded = anchored.slice(segmentBegan + 1).filter((e) => e.type === 'iteration');
   let iterations: Iteration[] = recorded.map((e) => {
     const p = (e as Extract<AuditEvent, { type: 'iteration' }>).payload;
     return { excluded: p.excluded, center: p.center, lcl: p.lcl, ucl: p.ucl, signals: p.signals };
   });
   if (iterations.length === 0) {
-    const steps = state.exclusions.length > 0 ? [[], state.exclusions] : [[]];
-    const history = iterationHistory(state.observations, steps, revision.method);
+    const end = start + analysis.value.periods.length;
+    const own = state.exclusions
+      .filter((e) => e.index >= start && e.index < end)
+      .map((e) => ({ index: e.index - start, cause: e.cause }));
+    const steps = own.length > 0 ? [[], own] : [[]];
+    const history = iterationHistory(state.observations.slice(start, end), steps, revision.method);
     if (!history.ok) return fail(...history.findings);
     iterations = history.value;
   }

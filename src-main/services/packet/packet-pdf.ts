@@ -46,7 +46,7 @@ export async function buildPacketPdf(
     lang: 'en-US',
     displayTitle: true,
     info: {
-      Title: `Approval packet: ${content.title}`,
+      Title: `${content.change ? 'Change packet' : 'Approval packet'}: ${content.title}`,
       Subject: `Control limits, study ${content.studyId}, revision ${content.revision.number}`,
       Creator: 'Limit Ledger',
       Producer: 'Limit Ledger',
@@ -174,7 +174,11 @@ class PageWriter {
 
 function cover(w: PageWriter, c: PacketContent, r: PdfRequest): void {
   const doc = w.doc;
-  doc.font(fonts.bold).fontSize(20).fillColor(palette.center).text('Approval packet: control limits');
+  doc
+    .font(fonts.bold)
+    .fontSize(20)
+    .fillColor(palette.center)
+    .text(c.change ? 'Change packet: control limits' : 'Approval packet: control limits');
   doc.moveDown(0.2).font(fonts.regular).fontSize(12).fillColor(palette.ink).text(c.title);
   if (c.identity.demo) {
     doc.moveDown(0.5);

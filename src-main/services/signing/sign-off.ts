@@ -12,6 +12,7 @@ import type { Study } from '../../../shared-core/study/study-schema.js';
 import { SiteSettingsSchema, defaultSiteSettings } from '../../../shared-core/settings/site-settings.js';
 import { fail, ok, type Result } from '../../../shared-core/result.js';
 import type { AnalysisResult } from '../../../shared-core/study/analysis-types.js';
+import { changeScopeProblem } from '../../../shared-core/changes/propose-change.js';
 import { limitsTable } from '../../../shared-core/study/revision-limits.js';
 import { currentAnalysis, revisionAnalysis, type Scope } from '../../../shared-core/study/revision-scope.js';
 import type { SignOffLine } from '../packet/packet-content.js';
@@ -89,6 +90,8 @@ export function addSignOff(
     ...(request.reactionPlan ? { reactionPlan: request.reactionPlan } : {}),
   };
 
+  const moved = revision && changeScopeProblem(current, revision, analysis.value.scope.start);
+  if (moved) return fail({ message: moved });
   let carried: ChangeFields = {};
   if (revision && !describesNow(revision, analysis.value, current)) {
     if (revision.signOffs.length > 0) {
