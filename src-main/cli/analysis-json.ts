@@ -148,76 +148,44 @@ export function periodJsonText(p: PeriodResult): string {
 const encoder = new TextEncoder();
 
 /**
- * UTF-8 bytes gathered into chunks of `size` bytes, each handed to `write` when it is full (and
- * never touched again). ASCII text is copied code by code; other text goes through the encoder.
+ * UTF-8 bytes in chunks of at most `size` bytes, each handed to `write` once. Pieces of text are
+ * joined as a string (cheap in V8) and encoded a chunk at a time by the native encoder: at most three
+ * bytes per UTF-16 unit, so a chunk of size/3 units never passes `size` bytes.
  */
 class ByteChunks {
-  private buffer: Uint8Array;
-  private used = 0;
+  private pending = '';
+  private readonly units: number;
 
   constructor(
-    private readonly size: number,
+    size: number,
     private readonly write: (bytes: Uint8Array) => void,
   ) {
-    this.buffer = new Uint8Array(size);
+    this.units = Math.max(1, Math.floor(size / 3));
   }
 
   text(value: string): void {
-    const length = value.length;
-    if (this.used + length > this.size) this.flush();
-    if (length > this.size) return this.encoded(value);
-    const buffer = this.buffer;
-    let used = this.used;
-    for (let i = 0; i < length; i++) {
-      const code = value.charCodeAt(i);
-      if (code >= 128) {
-        // Stops before a surrogate pair's first half, so the pair is encoded whole.
-        this.used = used;
-        return this.encoded(value.slice(i));
-      }
-      buffer[used++] = code;
+    if (this.pending.length + value.length > this.units) {
+      this.flush();
+      // A piece longer than a chunk goes alone (a long period), never split inside.
+      if (value.length > this.units) return this.write(encoder.encode(value));
     }
-    this.used = used;
-  }
-
-  private encoded(value: string): void {
-    const bytes = encoder.encode(value);
-    if (this.used + bytes.length > this.size) this.flush();
-    if (bytes.length > this.size) return this.write(bytes);
-    this.buffer.set(bytes, this.used);
-    this.used += bytes.length;
+    this.pending += value;
   }
 
   flush(): void {
-    if (this.used === 0) return;
-    this.write(this.buffer.subarray(0, this.used));
-    this.buffer = new Uint8Array(this.size);
-    this.used = 0;
+    if (this.pending === '') return;
+    this.write(encoder.encode(this.pending));
+    this.pending = '';
   }
 }
 
-/** One period's JSON into the chunks: the usual period piece by piece, any other as text. */
+/** One period's JSON into the chunks: the usual period from one template, any other as text. */
 function writePeriod(out: ByteChunks, p: PeriodResult): void {
   if (!isUsual(p)) return out.text(periodJsonText(p));
-  out.text('{"label":"');
-  out.text(p.label);
-  out.text('","row":');
-  out.text(numberText(p.row));
-  out.text(',"count":');
-  out.text(numberText(p.count));
-  out.text(',"units":');
-  out.text(numberText(p.units));
-  out.text(',"rate":');
-  out.text(numberText(p.rate));
-  out.text(',"lcl":');
-  out.text(p.lcl === null ? 'null' : numberText(p.lcl));
-  out.text(',"ucl":');
-  out.text(numberText(p.ucl));
-  out.text(',"z":');
-  out.text(numberText(p.z));
-  out.text(',"status":"');
-  out.text(p.status);
-  out.text('","rules":[]}');
+  const lcl = p.lcl === null ? 'null' : numberText(p.lcl);
+  out.text(
+    `{"label":"${p.label}","row":${numberText(p.row)},"count":${numberText(p.count)},"units":${numberText(p.units)},"rate":${numberText(p.rate)},"lcl":${lcl},"ucl":${numberText(p.ucl)},"z":${numberText(p.z)},"status":"${p.status}","rules":[]}`,
+  );
 }
 
 /**
