@@ -15,6 +15,7 @@ import {
   seriousViolations,
   startServe,
 } from './screens-harness.js';
+import { makeTestP12 } from './helpers/test-p12.js';
 
 /**
  * Invented new production for the invented demo plant (not real data): 20 shifts of door panels
@@ -28,55 +29,6 @@ const newCsv = [
   'shift,date,panels,defects',
   ...newPanels.map((k, i) => `N${String(i + 1).padStart(2, '0')},${newDate(i)},${k},${newBlemishes[i]}`),
 ].join('\n');
-
-/** A throwaway RSA 3072 signer for this test only, made by OpenSSL (removed with the folder). */
-function makeP12(folder: string, name: string, commonName: string): string {
-  const key = join(folder, `${name}.pem`);
-  const cert = join(folder, `${name}.crt`);
-  const p12 = join(folder, `${name}.p12`);
-  execFileSync(
-    'openssl',
-    [
-      'req',
-      '-x509',
-      '-newkey',
-      'rsa:3072',
-      '-nodes',
-      '-keyout',
-      key,
-      '-out',
-      cert,
-      '-subj',
-      `/CN=${commonName}`,
-      '-days',
-      '2',
-    ],
-    { stdio: 'ignore' },
-  );
-  execFileSync(
-    'openssl',
-    [
-      'pkcs12',
-      '-export',
-      '-inkey',
-      key,
-      '-in',
-      cert,
-      '-out',
-      p12,
-      '-passout',
-      'pass:test-pass',
-      '-keypbe',
-      'PBE-SHA1-3DES',
-      '-certpbe',
-      'PBE-SHA1-3DES',
-      '-macalg',
-      'sha1',
-    ],
-    { stdio: 'ignore' },
-  );
-  return p12;
-}
 
 async function sign(page: Page, who: string, meaning: string, key: string): Promise<string> {
   await page.locator('[data-testid="sign-name"]').fill(who);
@@ -156,8 +108,8 @@ describe.skipIf(!hasChromium || !hasServe)('a change of approved limits, against
 
   beforeAll(async () => {
     work = await mkdtemp(join(tmpdir(), 'll-changes-e2e-'));
-    preparerKey = makeP12(work, 'preparer', 'Test Preparer');
-    approverKey = makeP12(work, 'approver', 'Test Approver');
+    preparerKey = makeTestP12(work, 'preparer', 'Test Preparer');
+    approverKey = makeTestP12(work, 'approver', 'Test Approver');
     served = await startServe();
     ({ browser, close: closeBrowser } = await launchChromium());
   }, 120_000);

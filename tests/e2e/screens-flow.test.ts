@@ -1,4 +1,4 @@
-import { execFileSync, spawnSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
@@ -14,6 +14,7 @@ import {
   seriousViolations,
   startServe,
 } from './screens-harness.js';
+import { makeTestP12 } from './helpers/test-p12.js';
 
 const summary = (page: Page) => page.locator('[data-testid="review-summary"]').innerText();
 
@@ -210,48 +211,7 @@ describe.skipIf(!hasChromium || !hasServe)('a baseline study by hand, against li
       const work = await mkdtemp(join(tmpdir(), 'll-screens-sign-'));
       try {
         // A throwaway RSA 3072 signer for this test only (never committed; removed below).
-        const key = join(work, 'signer.p12');
-        execFileSync(
-          'openssl',
-          [
-            'req',
-            '-x509',
-            '-newkey',
-            'rsa:3072',
-            '-nodes',
-            '-keyout',
-            join(work, 'k.pem'),
-            '-out',
-            join(work, 'c.pem'),
-            '-subj',
-            '/CN=Test Signer',
-            '-days',
-            '2',
-          ],
-          { stdio: 'ignore' },
-        );
-        execFileSync(
-          'openssl',
-          [
-            'pkcs12',
-            '-export',
-            '-inkey',
-            join(work, 'k.pem'),
-            '-in',
-            join(work, 'c.pem'),
-            '-out',
-            key,
-            '-passout',
-            'pass:test-pass',
-            '-keypbe',
-            'PBE-SHA1-3DES',
-            '-certpbe',
-            'PBE-SHA1-3DES',
-            '-macalg',
-            'sha1',
-          ],
-          { stdio: 'ignore' },
-        );
+        const key = makeTestP12(work, 'signer', 'Test Signer');
 
         const { page, context: browserContext } = await newPage(browser, { width: 1280, height: 800 });
         await page.goto(served.url);
