@@ -1,33 +1,18 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { demoStudy } from '../../shared-core/study/demo-scenario.js';
 import { deriveState } from '../../shared-core/study/study-state.js';
 import { formatStudy, parseStudy } from '../../shared-core/study/study-text.js';
 import type { Study } from '../../shared-core/study/study-schema.js';
 import { verifyStudy } from '../../shared-core/study/verify-study.js';
-import { createPersonalIdentity } from '../../src-main/services/signing/personal-certificate.js';
-import { addSignOff } from '../../src-main/services/signing/sign-off.js';
 import { runCli, tempFiles } from './helpers/cli.js';
+import { approvedDemoStudy } from './fixtures/approved-demo.js';
 
 const now = (minute: number) => `2026-11-21T08:${String(minute).padStart(2, '0')}:00.000+01:00`;
 let approved: Study;
 
 beforeAll(async () => {
-  const [rui, dana] = await Promise.all([
-    createPersonalIdentity({ name: 'Rui Tanaka' }),
-    createPersonalIdentity({ name: 'Dana Okafor' }),
-  ]);
-  let study = demoStudy({ id: 'st-propose-cli', who: 'Rui Tanaka', now: now(0) });
-  for (const [identity, name, meaning, minute] of [
-    [rui, 'Rui Tanaka', 'prepared', 1],
-    [dana, 'Dana Okafor', 'approved', 2],
-  ] as const) {
-    const signed = addSignOff(study, identity, { printedName: name, role: 'QE', meaning, now: now(minute) });
-    if (!signed.ok) throw new Error(signed.findings[0].message);
-    study = signed.value.study;
-  }
-  approved = study;
+  approved = await approvedDemoStudy('st-propose-cli', now);
 });
 
 // Invented new shifts of 40 panels after the approved history.

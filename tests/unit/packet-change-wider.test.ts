@@ -1,15 +1,13 @@
 import { spawnSync } from 'node:child_process';
+import { approvedDemoStudy } from '../integration/fixtures/approved-demo.js';
 import { describe, expect, it } from 'vitest';
 import { firstNewPeriod, proposeChange } from '../../shared-core/changes/propose-change.js';
 import type { Observation } from '../../shared-core/study/analysis-types.js';
-import { demoStudy } from '../../shared-core/study/demo-scenario.js';
 import { addPeriods } from '../../shared-core/study/study-state.js';
 import type { Study } from '../../shared-core/study/study-schema.js';
 import { packetContent, packetRevision } from '../../src-main/services/packet/packet-from-study.js';
 import { buildPacketPdf } from '../../src-main/services/packet/packet-pdf.js';
 import type { PacketFacts } from '../../src-main/services/packet/packet-facts.js';
-import { createPersonalIdentity } from '../../src-main/services/signing/personal-certificate.js';
-import { addSignOff } from '../../src-main/services/signing/sign-off.js';
 
 /**
  * A change to a higher rate: the proposed limits are wider than the approved ones, and the change
@@ -19,19 +17,7 @@ import { addSignOff } from '../../src-main/services/signing/sign-off.js';
 const now = (minute: number) => `2026-11-22T09:${String(minute).padStart(2, '0')}:00.000+01:00`;
 
 async function widerChange(): Promise<Study> {
-  const [rui, dana] = await Promise.all([
-    createPersonalIdentity({ name: 'Rui Tanaka' }),
-    createPersonalIdentity({ name: 'Dana Okafor' }),
-  ]);
-  let study = demoStudy({ id: 'st-wider', who: 'Rui Tanaka', now: now(0) });
-  for (const [identity, name, meaning, minute] of [
-    [rui, 'Rui Tanaka', 'prepared', 1],
-    [dana, 'Dana Okafor', 'approved', 2],
-  ] as const) {
-    const signed = addSignOff(study, identity, { printedName: name, role: 'QE', meaning, now: now(minute) });
-    if (!signed.ok) throw new Error(signed.findings[0].message);
-    study = signed.value.study;
-  }
+  const study = await approvedDemoStudy('st-wider', now);
   const counts = [9, 11, 8, 12, 10, 9, 13, 10, 11, 9, 12, 10];
   const observations: Observation[] = counts.map((count, i) => ({
     label: `W${String(i + 1).padStart(2, '0')}`,
