@@ -14,7 +14,7 @@
  * @param included whether each period is included
  * @returns σz, or null when no two adjacent periods are both included
  */
-export function laneySigmaZ(z: readonly number[], included: readonly boolean[]): number | null {
+export function laneySigmaZ(z: ArrayLike<number>, included: readonly boolean[]): number | null {
   let sum = 0;
   let pairs = 0;
   for (let i = 1; i < z.length; i++) {

@@ -7,11 +7,19 @@ import type { RulePoint } from './rule-point.js';
  * the ids of the rules that fire there. A rule fires at every t whose window completes its pattern
  * (a run of 10 fires `run:8` at its 8th, 9th and 10th periods).
  */
-export function findSignals(points: readonly RulePoint[], rules: readonly RuleId[]): RuleId[][] {
+export function findSignals(points: readonly RulePoint[], rules: readonly RuleId[]): (readonly RuleId[])[] {
   const definitions = rules.map((id) => ruleCatalog[id]);
-  return points.map((_, t) => {
-    const fired: RuleId[] = [];
-    for (const rule of definitions) if (rule.firesAt(points, t)) fired.push(rule.id);
-    return fired;
-  });
+  const fired = new Array<readonly RuleId[]>(points.length);
+  for (let t = 0; t < points.length; t++) {
+    let here: RuleId[] | undefined;
+    for (const rule of definitions) if (rule.firesAt(points, t)) (here ??= []).push(rule.id);
+    fired[t] = here ?? noRules;
+  }
+  return fired;
 }
+
+/**
+ * The rules of a period where none fired: one shared empty list (frozen, so that it stays empty),
+ * because a long history is nearly all such periods and each list would live as long as the result.
+ */
+export const noRules: readonly RuleId[] = Object.freeze([]);

@@ -96,7 +96,7 @@ export interface PeriodResult {
   z: number;
   status: PeriodStatus;
   /** Ids of the selected rules that fire at this period (empty for excluded periods). */
-  rules: string[];
+  rules: readonly string[];
   /** The cause, for excluded periods. */
   cause?: AssignableCause;
 }

@@ -1,23 +1,33 @@
 import { fail, ok, type Result } from '../result.js';
-import type { AnalysisOptions, AnalysisResult, Exclusion, Iteration, Observation } from './analysis-types.js';
+import type {
+  AnalysisOptions,
+  AnalysisResult,
+  Exclusion,
+  Iteration,
+  Observation,
+  PeriodResult,
+} from './analysis-types.js';
 import { analyzePhaseOne } from './phase-one.js';
 
 /** What one recompute looked like: the excluded set, the center, the limits at k̄ and the signals. */
 export function iterationSnapshot(result: AnalysisResult): Iteration {
-  const included = result.periods.filter((p) => p.status !== 'excluded');
   const meanUnits = result.totals.units / result.m;
-  // Limits at k̄: the average-k limits where they are a fair display, else the nearest period's.
-  const nearest = included.reduce((best, p) =>
-    Math.abs(p.units - meanUnits) < Math.abs(best.units - meanUnits) ? p : best,
-  );
-  const atMean = result.averageK ?? { lcl: nearest.lcl, ucl: nearest.ucl };
-  return {
-    excluded: result.periods.filter((p) => p.status === 'excluded').map((p) => p.label),
-    center: result.center,
-    lcl: atMean.lcl,
-    ucl: atMean.ucl,
-    signals: result.periods.filter((p) => p.status === 'signal').map((p) => p.label),
-  };
+  const excluded: string[] = [];
+  const signals: string[] = [];
+  // Limits at k̄: the average-k limits where they are a fair display, else the nearest included
+  // period's (the first of equals).
+  let nearest: PeriodResult | undefined;
+  for (const p of result.periods) {
+    if (p.status === 'excluded') {
+      excluded.push(p.label);
+      continue;
+    }
+    if (p.status === 'signal') signals.push(p.label);
+    if (nearest === undefined || Math.abs(p.units - meanUnits) < Math.abs(nearest.units - meanUnits))
+      nearest = p;
+  }
+  const atMean = result.averageK ?? { lcl: nearest?.lcl ?? null, ucl: nearest?.ucl ?? Number.NaN };
+  return { excluded, center: result.center, lcl: atMean.lcl, ucl: atMean.ucl, signals };
 }
 
 /**

@@ -1,3 +1,4 @@
+import { kthSmallest } from '../stats/order-statistic.js';
 import { sigmaLimits } from '../charts/sigma-limits.js';
 import { probabilityLimits } from '../charts/probability-limits.js';
 import { unitsForLowerLimit } from '../charts/units-for-lower-limit.js';
@@ -55,7 +56,7 @@ export function phaseOneWarnings(result: AnalysisResult, options: AnalysisOption
     });
   }
 
-  const median = expected.subarray(0, included).sort()[Math.floor(included / 2)];
+  const median = kthSmallest(expected.subarray(0, included), Math.floor(included / 2));
   if (median < 1)
     warnings.push({
       code: 'rare-events',

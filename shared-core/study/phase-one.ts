@@ -5,7 +5,8 @@ import { laneySigmaZ } from '../charts/laney-sigma-z.js';
 import { probabilityLimits } from '../charts/probability-limits.js';
 import { sigmaLimits } from '../charts/sigma-limits.js';
 import { standardizedValue } from '../charts/standardized-value.js';
-import { findSignals } from '../rules/find-signals.js';
+import { findSignals, noRules } from '../rules/find-signals.js';
+import type { RulePoint } from '../rules/rule-point.js';
 import { normalQuantile } from '../stats/normal.js';
 import { poissonMeanInterval } from '../stats/poisson-mean-interval.js';
 import { fail, ok, type Result } from '../result.js';
@@ -46,21 +47,25 @@ export function analyzePhaseOne(
       return fail({ message: `exclusion of period ${exclusion.index + 1} names no period of this study` });
     causes.set(exclusion.index, exclusion.cause);
   }
-  const included = observations.map((_, i) => !causes.has(i));
-  const m = included.filter(Boolean).length;
+  const n = observations.length;
+  // Exclusions name distinct periods (a Map key each), so the rest are the included ones.
+  const m = n - causes.size;
   if (m === 0) return fail({ message: 'every period is excluded: at least one must stay in the estimate' });
+  const isIncluded = (i: number) => causes.size === 0 || !causes.has(i);
 
   const chart = chooseChart(observations, options.chart);
   if (!chart.ok) return chart;
 
+  // One pass per quantity, in period order, with typed arrays for the per-period numbers: a long
+  // history feels every extra pass and every short-lived object.
   let totalCount = 0;
   let totalUnits = 0;
-  observations.forEach((o, i) => {
-    if (included[i]) {
-      totalCount += o.count;
-      totalUnits += o.units;
+  for (let i = 0; i < n; i++) {
+    if (isIncluded(i)) {
+      totalCount += observations[i].count;
+      totalUnits += observations[i].units;
     }
-  });
+  }
   const rateKnown = options.knownRate !== undefined;
   const rate = options.knownRate ?? totalCount / totalUnits;
   if (!(rate > 0) || !Number.isFinite(rate))
@@ -70,14 +75,22 @@ export function analyzePhaseOne(
         : 'no nonconformity was counted in the included periods (ū = 0): c and u limits cannot be set',
     });
 
-  const rawZ = observations.map((o) => standardizedValue(o.count / o.units, rate, o.units));
+  const z = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const o = observations[i];
+    z[i] = standardizedValue(o.count / o.units, rate, o.units);
+  }
   let sigmaZ: number | null = null;
   if (options.limits === 'laney') {
-    sigmaZ = laneySigmaZ(rawZ, included);
+    sigmaZ = laneySigmaZ(
+      z,
+      observations.map((_, i) => isIncluded(i)),
+    );
     if (sigmaZ === null)
       return fail({ message: 'Laney u′ limits need at least two adjacent included periods' });
     if (sigmaZ === 0)
       return fail({ message: 'Laney u′ limits need some variation between adjacent periods (σz = 0)' });
+    for (let i = 0; i < n; i++) z[i] /= sigmaZ;
   }
 
   const alpha = options.fap !== undefined ? perPointAlpha(options.fap, m) : options.alpha;
@@ -100,32 +113,32 @@ export function analyzePhaseOne(
     }
     return entry;
   };
-  const countLimits = observations.map((o) => atUnits(o.units).limits);
+
+  // The rules see the included periods in order; so do the dispersion check, the FAP and k̄.
+  const points: RulePoint[] = new Array<RulePoint>(m);
+  const includedCounts: number[] = new Array<number>(m);
+  const includedUnits: number[] = new Array<number>(m);
+  const alarms: number[] = new Array<number>(m);
+  for (let i = 0, t = 0; i < n; i++) {
+    if (!isIncluded(i)) continue;
+    const { count, units } = observations[i];
+    const { limits, alarm } = atUnits(units);
+    points[t] = { z: z[i], beyond: signalsHigh(count, limits) || signalsLow(count, limits) };
+    includedCounts[t] = count;
+    includedUnits[t] = units;
+    alarms[t++] = alarm;
+  }
+  const fired = findSignals(points, options.rules);
 
   // c chart: plotted on the count scale; u chart: on the rate scale (count limits ÷ kᵢ).
   const scale = (units: number) => (chart.value === 'c' ? 1 : 1 / units);
-  // Without Laney's σz the standardized values are the raw ones (x / 1 is x): no second array.
-  const z = sigmaZ === null ? rawZ : rawZ.map((value) => value / sigmaZ);
-
-  const includedIndex: number[] = [];
-  included.forEach((inc, i) => inc && includedIndex.push(i));
-  const fired = findSignals(
-    includedIndex.map((i) => ({
-      z: z[i],
-      beyond:
-        signalsHigh(observations[i].count, countLimits[i]) ||
-        signalsLow(observations[i].count, countLimits[i]),
-    })),
-    options.rules,
-  );
-  const rulesAt: string[][] = [];
-  includedIndex.forEach((i, t) => (rulesAt[i] = fired[t]));
-
-  const periods: PeriodResult[] = observations.map((o, i) => {
-    const limits = countLimits[i];
+  const periods: PeriodResult[] = new Array<PeriodResult>(n);
+  for (let i = 0, t = 0; i < n; i++) {
+    const o = observations[i];
+    const limits = atUnits(o.units).limits;
     const s = scale(o.units);
-    const rules = rulesAt[i] ?? [];
-    const cause = causes.get(i);
+    const cause = causes.size === 0 ? undefined : causes.get(i);
+    const rules = cause ? noRules : fired[t++];
     const period: PeriodResult = {
       index: i,
       label: o.label,
@@ -142,22 +155,15 @@ export function analyzePhaseOne(
     };
     if (o.rows) period.rows = o.rows;
     if (cause) period.cause = cause;
-    return period;
-  });
+    periods[i] = period;
+  }
 
-  const includedObs =
-    includedIndex.length === observations.length ? observations : includedIndex.map((i) => observations[i]);
-  const dispersion = dispersionCheck(
-    includedObs.map((o) => o.count),
-    includedObs.map((o) => o.units),
-    rate,
-    rateKnown,
-  );
-  const fap = phaseOneFap(includedIndex.map((i) => atUnits(observations[i].units).alarm));
+  const dispersion = dispersionCheck(includedCounts, includedUnits, rate, rateKnown);
+  const fap = phaseOneFap(alarms);
   const garwood = poissonMeanInterval(totalCount, 0.95);
   const rateInterval = { lower: garwood.lower / totalUnits, upper: garwood.upper / totalUnits };
 
-  const displayUnits = averageUnitsForDisplay(includedObs.map((o) => o.units));
+  const displayUnits = averageUnitsForDisplay(includedUnits);
   const averageK =
     displayUnits === null
       ? null
