@@ -79,9 +79,11 @@ const bits = new Float64Array(1);
 const words = new Uint32Array(bits.buffer);
 
 function numberText(value: number): string {
+  // A 32-bit integer's text is its decimal digits (-0 too: String(-0) is "0", as in JSON).
+  if ((value | 0) === value) return String(value);
   bits[0] = value;
   const slot = (words[0] ^ Math.imul(words[1], 0x9e3779b1)) >>> 20;
-  // -0 finds 0's slot text "0", which is also how JSON writes -0; NaN never matches.
+  // NaN never matches its slot.
   if (slotNumbers[slot] === value) return slotTexts[slot];
   const text = Number.isFinite(value) ? String(value) : 'null';
   slotNumbers[slot] = value;
@@ -103,9 +105,18 @@ function member(key: string, value: unknown): string {
   return written === undefined ? '' : `,"${key}":${written}`;
 }
 
-const isPlainText = (value: unknown): value is string =>
-  typeof value === 'string' && !needsEscape.test(value);
+/** A string JSON writes as it is between quotes (a loop: labels are short, and there is one per period). */
+function isPlainText(value: unknown): value is string {
+  if (typeof value !== 'string') return false;
+  for (let i = 0; i < value.length; i++) {
+    const c = value.charCodeAt(i);
+    if (c < 0x20 || c === 0x22 || c === 0x5c || (c >= 0xd800 && c <= 0xdfff)) return false;
+  }
+  return true;
+}
 const isNumber = (value: unknown): value is number => typeof value === 'number';
+const isStatus = (value: unknown): value is string =>
+  value === 'in' || value === 'signal' || value === 'excluded';
 
 /** The usual period: a plain label and status, numbers, no rule fired, not excluded, no rows. */
 function isUsual(p: PeriodResult): boolean {
@@ -119,7 +130,7 @@ function isUsual(p: PeriodResult): boolean {
     (lcl === null || isNumber(lcl)) &&
     isNumber(ucl) &&
     isNumber(z) &&
-    isPlainText(status) &&
+    isStatus(status) &&
     Array.isArray(rules) &&
     rules.length === 0 &&
     !p.rows &&
@@ -145,47 +156,155 @@ export function periodJsonText(p: PeriodResult): string {
   return text === '' ? '{}' : `{${text.slice(1)}}`;
 }
 
-const encoder = new TextEncoder();
-
 /**
- * UTF-8 bytes in chunks of at most `size` bytes, each handed to `write` once. Pieces of text are
- * joined as a string (cheap in V8) and encoded a chunk at a time by the native encoder: at most three
- * bytes per UTF-16 unit, so a chunk of size/3 units never passes `size` bytes.
+ * UTF-8 bytes in chunks of at most `size` bytes, each handed to `write` once and never touched
+ * again. Text is encoded natively straight into the chunk; no piece is split, and a piece longer
+ * than a chunk goes alone.
  */
 class ByteChunks {
-  private pending = '';
-  private readonly units: number;
+  private chunk: Buffer | null = null;
+  private used = 0;
 
   constructor(
-    size: number,
+    readonly size: number,
     private readonly write: (bytes: Uint8Array) => void,
-  ) {
-    this.units = Math.max(1, Math.floor(size / 3));
-  }
+  ) {}
 
   text(value: string): void {
-    if (this.pending.length + value.length > this.units) {
-      this.flush();
-      // A piece longer than a chunk goes alone (a long period), never split inside.
-      if (value.length > this.units) return this.write(encoder.encode(value));
+    // At most three bytes per UTF-16 unit; the exact length only when that bound does not fit.
+    if (this.used + 3 * value.length > this.size) {
+      const bytes = Buffer.byteLength(value);
+      if (this.used + bytes > this.size) {
+        this.flush();
+        if (bytes > this.size) return this.write(Buffer.from(value));
+      }
     }
-    this.pending += value;
+    this.chunk ??= Buffer.allocUnsafe(this.size);
+    this.used += this.chunk.write(value, this.used);
+  }
+
+  /**
+   * The chunk to write the next `bytes` bytes (at most `size`) into by hand, at `this.used`: a
+   * fresh one when they do not fit in this one. The caller adds what it wrote to `used`.
+   */
+  reserve(bytes: number): Buffer {
+    if (this.used + bytes > this.size) this.flush();
+    return (this.chunk ??= Buffer.allocUnsafe(this.size));
+  }
+
+  get at(): number {
+    return this.used;
+  }
+
+  set at(offset: number) {
+    this.used = offset;
   }
 
   flush(): void {
-    if (this.pending === '') return;
-    this.write(encoder.encode(this.pending));
-    this.pending = '';
+    if (this.chunk === null || this.used === 0) return;
+    this.write(this.chunk.subarray(0, this.used));
+    this.chunk = null;
+    this.used = 0;
   }
 }
 
-/** One period's JSON into the chunks: the usual period from one template, any other as text. */
-function writePeriod(out: ByteChunks, p: PeriodResult): void {
-  if (!isUsual(p)) return out.text(periodJsonText(p));
+/**
+ * The bytes of a usual period after its row, `,"count":…,"rules":[]}`, kept by a hash of its count
+ * and units: they depend only on the numbers and status checked below, and a long history has few
+ * distinct ones (one rate, limits and z per count and k).
+ */
+interface PeriodTail {
+  count: number;
+  units: number;
+  rate: number;
+  lcl: number | null;
+  ucl: number;
+  z: number;
+  status: string;
+  bytes: Uint8Array;
+}
+const tailSlots: (PeriodTail | undefined)[] = new Array<PeriodTail | undefined>(1024).fill(undefined);
+
+function periodTail(p: PeriodResult): Uint8Array {
+  bits[0] = p.count;
+  let hash = Math.imul(words[0] ^ words[1], 0x9e3779b1);
+  bits[0] = p.units;
+  hash = (hash ^ Math.imul(words[0] ^ words[1], 0x85ebca6b)) >>> 22;
+  const kept = tailSlots[hash];
+  if (
+    kept !== undefined &&
+    kept.count === p.count &&
+    kept.units === p.units &&
+    kept.rate === p.rate &&
+    kept.lcl === p.lcl &&
+    kept.ucl === p.ucl &&
+    kept.z === p.z &&
+    kept.status === p.status
+  )
+    return kept.bytes;
   const lcl = p.lcl === null ? 'null' : numberText(p.lcl);
-  out.text(
-    `{"label":"${p.label}","row":${numberText(p.row)},"count":${numberText(p.count)},"units":${numberText(p.units)},"rate":${numberText(p.rate)},"lcl":${lcl},"ucl":${numberText(p.ucl)},"z":${numberText(p.z)},"status":"${p.status}","rules":[]}`,
+  const bytes = Buffer.from(
+    `,"count":${numberText(p.count)},"units":${numberText(p.units)},"rate":${numberText(p.rate)},"lcl":${lcl},"ucl":${numberText(p.ucl)},"z":${numberText(p.z)},"status":"${p.status}","rules":[]}`,
   );
+  tailSlots[hash] = {
+    count: p.count,
+    units: p.units,
+    rate: p.rate,
+    lcl: p.lcl,
+    ucl: p.ucl,
+    z: p.z,
+    status: p.status,
+    bytes,
+  };
+  return bytes;
+}
+
+const labelStart = Buffer.from(',{"label":"');
+const firstLabelStart = labelStart.subarray(1);
+const rowStart = Buffer.from('","row":');
+
+/** Writes the text of a row number at `at`, digit by digit for a whole number: returns the end. */
+function putRow(chunk: Buffer, at: number, row: number): number {
+  if (!(row >= 0 && row < 2 ** 31 && (row | 0) === row))
+    return at + chunk.write(numberText(row), at, 'latin1');
+  let digits = 1;
+  for (let rest = row; rest >= 10; rest = (rest / 10) | 0) digits++;
+  for (let i = digits - 1, rest = row; i >= 0; i--, rest = (rest / 10) | 0)
+    chunk[at + i] = 0x30 + (rest % 10);
+  return at + digits;
+}
+
+/**
+ * One period's JSON into the chunks. The usual period is copied in as bytes: its opening, its label
+ * (ASCII byte by byte, else encoded), its row's digits and its kept tail; any other goes as text.
+ */
+function writePeriod(out: ByteChunks, p: PeriodResult, first: boolean): void {
+  const text = () => (first ? '' : ',') + periodJsonText(p);
+  if (!isUsual(p)) return out.text(text());
+  const label = p.label;
+  const tail = periodTail(p);
+  // The opening, the label at three bytes a unit at most, the row (at most 24 characters), the tail.
+  const most = labelStart.length + 3 * label.length + rowStart.length + 24 + tail.length;
+  if (most > out.size) return out.text(text());
+  const chunk = out.reserve(most);
+  let at = out.at;
+  const opening = first ? firstLabelStart : labelStart;
+  chunk.set(opening, at);
+  at += opening.length;
+  let ascii = true;
+  for (let i = 0; i < label.length; i++) {
+    const c = label.charCodeAt(i);
+    if (c >= 0x80) {
+      ascii = false;
+      break;
+    }
+    chunk[at + i] = c;
+  }
+  at += ascii ? label.length : chunk.write(label, at);
+  chunk.set(rowStart, at);
+  at = putRow(chunk, at + rowStart.length, p.row);
+  chunk.set(tail, at);
+  out.at = at + tail.length;
 }
 
 /**
@@ -204,10 +323,7 @@ export function writeAnalysisJson(
   const head = JSON.stringify(headFields(result));
   out.text(`${head.slice(0, -1)}${head.length > 2 ? ',' : ''}"periods":[`);
   const periods = result.periods;
-  for (let i = 0; i < periods.length; i++) {
-    if (i > 0) out.text(',');
-    writePeriod(out, periods[i]);
-  }
+  for (let i = 0; i < periods.length; i++) writePeriod(out, periods[i], i === 0);
   const tail = JSON.stringify(tailFields(result, outcome, iterations));
   out.text(`]${tail.length > 2 ? ',' + tail.slice(1) : '}'}`);
   out.flush();
