@@ -21,10 +21,10 @@ export function checkNewPeriods(
     standardizedValue(o.count / o.units, approved.rate, o.units, approved.sigmaZ ?? 1),
   );
   const fired = findSignals(
-    observations.map((o, i) => ({
-      z: z[i],
-      beyond: signalsHigh(o.count, limits[i]) || signalsLow(o.count, limits[i]),
-    })),
+    {
+      z,
+      beyond: observations.map((o, i) => signalsHigh(o.count, limits[i]) || signalsLow(o.count, limits[i])),
+    },
     rules,
   );
   return observations.map((o, i) => {

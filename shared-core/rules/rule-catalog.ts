@@ -1,5 +1,5 @@
 import { ruleIdList, type RuleId } from '../study/analysis-types.js';
-import type { RulePoint } from './rule-point.js';
+import type { RuleSeries } from './rule-series.js';
 import { alternateRule } from './alternate-rule.js';
 import { avoidRule } from './avoid-rule.js';
 import { beyondRule } from './beyond-rule.js';
@@ -15,7 +15,7 @@ export interface RuleDefinition {
   /** What the rule means, as a sentence in plain words, for a person reading why a period signals. */
   words: string;
   source: string;
-  firesAt: (points: readonly RulePoint[], t: number) => boolean;
+  firesAt: (series: RuleSeries, t: number) => boolean;
 }
 
 const WE = 'Western Electric, Statistical Quality Control Handbook (1956)';
@@ -51,42 +51,42 @@ export const ruleCatalog: Record<RuleId, RuleDefinition> = {
     name: 'Run of 8',
     words: 'Eight periods in a row lie on the same side of the center line.',
     source: WE,
-    firesAt: (points, t) => runRule(points, t, 8),
+    firesAt: (series, t) => runRule(series, t, 8),
   },
   'run:9': {
     id: 'run:9',
     name: 'Run of 9',
     words: 'Nine periods in a row lie on the same side of the center line.',
     source: NELSON,
-    firesAt: (points, t) => runRule(points, t, 9),
+    firesAt: (series, t) => runRule(series, t, 9),
   },
   trend: {
     id: 'trend',
     name: 'Trend of 6',
     words: 'Six periods in a row rise steadily or fall steadily.',
     source: NELSON,
-    firesAt: (points, t) => trendRule(points, t),
+    firesAt: (series, t) => trendRule(series, t),
   },
   alternate: {
     id: 'alternate',
     name: '14 alternating',
     words: 'Fourteen periods in a row alternate up and down.',
     source: NELSON,
-    firesAt: (points, t) => alternateRule(points, t),
+    firesAt: (series, t) => alternateRule(series, t),
   },
   hug: {
     id: 'hug',
     name: '15 within 1σ',
     words: 'Fifteen periods in a row lie within 1 standard deviation of the center line.',
     source: NELSON,
-    firesAt: (points, t) => hugRule(points, t),
+    firesAt: (series, t) => hugRule(series, t),
   },
   avoid: {
     id: 'avoid',
     name: '8 beyond 1σ, both sides',
     words: 'Eight periods in a row lie more than 1 standard deviation from the center line, on both sides.',
     source: NELSON,
-    firesAt: (points, t) => avoidRule(points, t),
+    firesAt: (series, t) => avoidRule(series, t),
   },
 };
 

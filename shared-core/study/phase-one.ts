@@ -6,7 +6,6 @@ import { probabilityLimits } from '../charts/probability-limits.js';
 import { sigmaLimits } from '../charts/sigma-limits.js';
 import { standardizedValue } from '../charts/standardized-value.js';
 import { findSignals, noRules } from '../rules/find-signals.js';
-import type { RulePoint } from '../rules/rule-point.js';
 import { normalQuantile } from '../stats/normal.js';
 import { poissonMeanInterval } from '../stats/poisson-mean-interval.js';
 import { fail, ok, type Result } from '../result.js';
@@ -115,7 +114,8 @@ export function analyzePhaseOne(
   };
 
   // The rules see the included periods in order; so do the dispersion check, the FAP and k̄.
-  const points: RulePoint[] = new Array<RulePoint>(m);
+  const includedZ = new Float64Array(m);
+  const beyond: boolean[] = new Array<boolean>(m);
   const includedCounts: number[] = new Array<number>(m);
   const includedUnits: number[] = new Array<number>(m);
   const alarms: number[] = new Array<number>(m);
@@ -123,12 +123,13 @@ export function analyzePhaseOne(
     if (!isIncluded(i)) continue;
     const { count, units } = observations[i];
     const { limits, alarm } = atUnits(units);
-    points[t] = { z: z[i], beyond: signalsHigh(count, limits) || signalsLow(count, limits) };
+    includedZ[t] = z[i];
+    beyond[t] = signalsHigh(count, limits) || signalsLow(count, limits);
     includedCounts[t] = count;
     includedUnits[t] = units;
     alarms[t++] = alarm;
   }
-  const fired = findSignals(points, options.rules);
+  const fired = findSignals({ z: includedZ, beyond }, options.rules);
 
   // c chart: plotted on the count scale; u chart: on the rate scale (count limits ÷ kᵢ).
   const scale = (units: number) => (chart.value === 'c' ? 1 : 1 / units);

@@ -9,7 +9,7 @@ import { averageRunLengthOfChain, runLengthChain } from '../../shared-core/chang
 import { probabilityLimits } from '../../shared-core/charts/probability-limits.js';
 import { sigmaLimits } from '../../shared-core/charts/sigma-limits.js';
 import { ruleCatalog } from '../../shared-core/rules/rule-catalog.js';
-import type { RulePoint } from '../../shared-core/rules/rule-point.js';
+import { ruleSeries, type RulePoint } from '../../shared-core/rules/rule-series.js';
 import { seededRandom, type Random } from '../../shared-core/stats/random.js';
 import { standardizedValue } from '../../shared-core/charts/standardized-value.js';
 import { analyzePhaseOne } from '../../shared-core/study/phase-one.js';
@@ -55,7 +55,8 @@ function simulatedArl(
       // The rules look back at most 15 periods: keep the last 16 so that long runs stay cheap.
       if (points.length > 16) points.shift();
       const t = points.length - 1;
-      if (rules.some((id) => ruleCatalog[id].firesAt(points, t))) break;
+      const series = ruleSeries(points);
+      if (rules.some((id) => ruleCatalog[id].firesAt(series, t))) break;
     }
     lengths.push(length);
   }

@@ -4,7 +4,7 @@ import { parseRuleList } from '../../shared-core/rules/rule-catalog.js';
 import type { RuleId } from '../../shared-core/study/analysis-types.js';
 
 // The rule definitions are DESIGN.md's table (Western Electric Handbook 1956; Nelson, JQT 16(4), 1984).
-const points = (z: number[]) => z.map((value) => ({ z: value, beyond: Math.abs(value) > 3 }));
+const points = (z: number[]) => ({ z, beyond: z.map((value) => Math.abs(value) > 3) });
 const firedAt = (z: number[], rule: RuleId) =>
   findSignals(points(z), [rule]).flatMap((ids, t) => (ids.length > 0 ? [t] : []));
 
