@@ -102,13 +102,24 @@ export function analyzePhaseOne(
     options.limits === 'probability'
       ? probabilityLimits(rate, units, alpha)
       : sigmaLimits(rate, units, multiplier, sigmaZ ?? 1);
-  // Periods with the same k share their limits and false-alarm probability: compute each k once.
-  const byUnits = new Map<number, { limits: CountLimits; alarm: number }>();
-  const atUnits = (units: number) => {
+  // c chart: plotted on the count scale; u chart: on the rate scale (count limits ÷ kᵢ).
+  const scale = (units: number) => (chart.value === 'c' ? 1 : 1 / units);
+  // Periods with the same k share their limits, as counts and as plotted, and their false-alarm
+  // probability: each k is worked out once.
+  const byUnits = new Map<number, UnitsLimits>();
+  const atUnits = (units: number): UnitsLimits => {
     let entry = byUnits.get(units);
     if (entry === undefined) {
       const limits = limitsAt(units);
-      byUnits.set(units, (entry = { limits, alarm: pointFalseAlarm(limits) }));
+      const s = scale(units);
+      entry = {
+        limits,
+        alarm: pointFalseAlarm(limits),
+        center: limits.mean * s,
+        lcl: limits.lower === null ? null : limits.lower * s,
+        ucl: limits.upper * s,
+      };
+      byUnits.set(units, entry);
     }
     return entry;
   };
@@ -131,13 +142,10 @@ export function analyzePhaseOne(
   }
   const fired = findSignals({ z: includedZ, beyond }, options.rules);
 
-  // c chart: plotted on the count scale; u chart: on the rate scale (count limits ÷ kᵢ).
-  const scale = (units: number) => (chart.value === 'c' ? 1 : 1 / units);
   const periods: PeriodResult[] = new Array<PeriodResult>(n);
   for (let i = 0, t = 0; i < n; i++) {
     const o = observations[i];
-    const limits = atUnits(o.units).limits;
-    const s = scale(o.units);
+    const plotted = atUnits(o.units);
     const cause = causes.size === 0 ? undefined : causes.get(i);
     const rules = cause ? noRules : fired[t++];
     const period: PeriodResult = {
@@ -147,9 +155,9 @@ export function analyzePhaseOne(
       count: o.count,
       units: o.units,
       rate: o.count / o.units,
-      center: limits.mean * s,
-      lcl: limits.lower === null ? null : limits.lower * s,
-      ucl: limits.upper * s,
+      center: plotted.center,
+      lcl: plotted.lcl,
+      ucl: plotted.ucl,
       z: z[i],
       status: cause ? 'excluded' : rules.length > 0 ? 'signal' : 'in',
       rules,
@@ -218,6 +226,15 @@ export function analyzePhaseOne(
   };
   result.warnings = phaseOneWarnings(result, { ...options, alpha, multiplier });
   return ok(result);
+}
+
+/** The limits at one k: as counts, their false-alarm probability, and as plotted. */
+interface UnitsLimits {
+  limits: CountLimits;
+  alarm: number;
+  center: number;
+  lcl: number | null;
+  ucl: number;
 }
 
 /** A c chart when every period has the same k, else a u chart; `c` with varying k is an error. */
