@@ -214,16 +214,21 @@ class ByteChunks {
  * distinct ones (one rate, limits and z per count and k).
  */
 interface PeriodTail {
-  count: number;
-  units: number;
-  rate: number;
-  lcl: number | null;
-  ucl: number;
-  z: number;
-  status: string;
+  /** The period it was written for: a later one with the same numbers and status shares it. */
+  period: PeriodResult;
   bytes: Uint8Array;
 }
 const tailSlots: (PeriodTail | undefined)[] = new Array<PeriodTail | undefined>(1024).fill(undefined);
+
+/** Whether two usual periods write the same text after their rows. */
+const sameTail = (a: PeriodResult, b: PeriodResult) =>
+  a.count === b.count &&
+  a.units === b.units &&
+  a.rate === b.rate &&
+  a.lcl === b.lcl &&
+  a.ucl === b.ucl &&
+  a.z === b.z &&
+  a.status === b.status;
 
 function periodTail(p: PeriodResult): Uint8Array {
   bits[0] = p.count;
@@ -231,31 +236,12 @@ function periodTail(p: PeriodResult): Uint8Array {
   bits[0] = p.units;
   hash = (hash ^ Math.imul(words[0] ^ words[1], 0x85ebca6b)) >>> 22;
   const kept = tailSlots[hash];
-  if (
-    kept !== undefined &&
-    kept.count === p.count &&
-    kept.units === p.units &&
-    kept.rate === p.rate &&
-    kept.lcl === p.lcl &&
-    kept.ucl === p.ucl &&
-    kept.z === p.z &&
-    kept.status === p.status
-  )
-    return kept.bytes;
+  if (kept !== undefined && sameTail(kept.period, p)) return kept.bytes;
   const lcl = p.lcl === null ? 'null' : numberText(p.lcl);
   const bytes = Buffer.from(
     `,"count":${numberText(p.count)},"units":${numberText(p.units)},"rate":${numberText(p.rate)},"lcl":${lcl},"ucl":${numberText(p.ucl)},"z":${numberText(p.z)},"status":"${p.status}","rules":[]}`,
   );
-  tailSlots[hash] = {
-    count: p.count,
-    units: p.units,
-    rate: p.rate,
-    lcl: p.lcl,
-    ucl: p.ucl,
-    z: p.z,
-    status: p.status,
-    bytes,
-  };
+  tailSlots[hash] = { period: p, bytes };
   return bytes;
 }
 

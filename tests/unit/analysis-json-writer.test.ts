@@ -166,4 +166,38 @@ describe('writeAnalysisJson', () => {
     const expected = JSON.stringify(analysisJson(analyzed.value, outcome, iterations));
     expect(Buffer.concat(chunks).equals(Buffer.from(expected, 'utf8'))).toBe(true);
   });
+
+  it('writes periods that share a count and units but differ elsewhere each with its own numbers', () => {
+    const base = {
+      index: 0,
+      label: 'A',
+      row: 2,
+      count: 4,
+      units: 10,
+      rate: 0.4,
+      center: 0.5,
+      lcl: null,
+      ucl: 1.2,
+      z: -0.4,
+      status: 'in',
+      rules: [],
+    } as PeriodResult;
+    const periods: PeriodResult[] = [
+      base,
+      { ...base, label: 'B', row: 3 },
+      { ...base, label: 'C', row: 4, z: -0.5 },
+      { ...base, label: 'D', row: 5, lcl: 0.01 },
+      { ...base, label: 'E', row: 6, ucl: 1.3 },
+      { ...base, label: 'F', row: 7, rate: 0.41 },
+      { ...base, label: 'G', row: 8, status: 'excluded' },
+      { ...base, label: 'H', row: 9, count: -0 },
+      { ...base, label: 'I', row: 10, count: 0 },
+      { ...base, label: 'Ü', row: 2 ** 40 },
+    ];
+    const { result, outcome, iterations } = analysisOf(periods);
+    const chunks: Uint8Array[] = [];
+    writeAnalysisJson(result, outcome, iterations, (chunk) => chunks.push(chunk), 300);
+    const expected = JSON.stringify(analysisJson(result, outcome, iterations));
+    expect(Buffer.concat(chunks).toString('utf8')).toBe(expected);
+  });
 });
