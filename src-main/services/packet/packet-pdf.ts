@@ -31,12 +31,31 @@ const margin = 50;
 
 /**
  * The approval packet as an (unsigned) PDF in memory; pdf-signature.ts signs it. The facts may
- * still be on their way (the workbook's hash): the document and its fonts are prepared meanwhile.
+ * still be on their way (the workbook's hash, which the cover prints): the cover is drawn last,
+ * on the first page left blank for it, so the pages after it need not wait. Those pages start on
+ * a page of their own and do not depend on the cover, unless the cover runs over its page (a long
+ * reaction plan); then the document is drawn again in order, cover first.
  */
 export async function buildPacketPdf(
   content: PacketContent,
   pending: Omit<PdfRequest, 'facts'> & { facts: PacketFacts | Promise<PacketFacts> },
 ): Promise<Buffer> {
+  const coverLast = await drawPacketPdf(content, pending, 'cover last');
+  if (coverLast) return coverLast;
+  return (await drawPacketPdf(content, { paper: pending.paper, facts: await pending.facts }, 'in order'))!;
+}
+
+type DrawingOrder = 'in order' | 'cover last';
+
+/**
+ * Draws the packet with the cover in the given order; null when the cover, drawn last, needed
+ * more than its one page. Exported for the test that both orders render the same pages.
+ */
+export async function drawPacketPdf(
+  content: PacketContent,
+  pending: Omit<PdfRequest, 'facts'> & { facts: PacketFacts | Promise<PacketFacts> },
+  order: DrawingOrder,
+): Promise<Buffer | null> {
   const doc = new PDFDocument({
     size: pending.paper === 'a4' ? 'A4' : 'LETTER',
     margins: { top: margin + 14, bottom: margin + 10, left: margin, right: margin },
@@ -70,11 +89,10 @@ export async function buildPacketPdf(
   installLayoutShortcut(doc);
   doc.widthOfString('Approval');
   doc.font(fonts.regular).fontSize(9.5).fillColor(palette.ink);
-  const request: PdfRequest = { ...pending, facts: await pending.facts };
 
   const writer = new PageWriter(doc);
-  const steps: ((w: PageWriter, c: PacketContent, r: PdfRequest) => void)[] = [
-    cover,
+  // Each starts on a page of its own (the change section, else the chart page, adds one).
+  const afterCover: ((w: PageWriter, c: PacketContent) => void)[] = [
     (w, c) => changeSection(w, c, fonts),
     chartPage,
     approvedLimits,
@@ -85,12 +103,31 @@ export async function buildPacketPdf(
     signOffBlock,
     cautionPage,
   ];
-  steps.forEach((step, i) => {
-    step(writer, content, request);
-    request.onProgress?.((i + 1) / (steps.length + 1));
-  });
+  const progress = (stepsDone: number) => pending.onProgress?.(stepsDone / (afterCover.length + 2));
+  const drawAfterCover = () =>
+    afterCover.forEach((step, i) => {
+      step(writer, content);
+      progress(i + 2);
+    });
+  let facts: PacketFacts;
+  if (order === 'in order') {
+    facts = await pending.facts;
+    cover(writer, content, facts);
+    progress(1);
+    drawAfterCover();
+  } else {
+    drawAfterCover();
+    facts = await pending.facts;
+    const pages = doc.bufferedPageRange().count;
+    doc.switchToPage(0);
+    doc.x = doc.page.margins.left;
+    doc.y = doc.page.margins.top;
+    cover(writer, content, facts);
+    if (doc.bufferedPageRange().count !== pages) return null;
+    progress(afterCover.length + 1);
+  }
 
-  const factsBytes = Buffer.from(JSON.stringify(request.facts, null, 2), 'utf8');
+  const factsBytes = Buffer.from(JSON.stringify(facts, null, 2), 'utf8');
   doc.file(factsBytes, {
     name: factsFileName,
     type: 'application/json',
@@ -172,7 +209,7 @@ class PageWriter {
   }
 }
 
-function cover(w: PageWriter, c: PacketContent, r: PdfRequest): void {
+function cover(w: PageWriter, c: PacketContent, facts: PacketFacts): void {
   const doc = w.doc;
   doc
     .font(fonts.bold)
@@ -204,8 +241,8 @@ function cover(w: PageWriter, c: PacketContent, r: PdfRequest): void {
     ['Effective date', c.revision.effectiveDate ?? '(not set)'],
     ['Review date', c.revision.reviewDate ?? '(not set)'],
     ['Packet made', c.generatedAt],
-    ['Workbook SHA-256', r.facts.workbookSha256 ?? '(no workbook exported with this packet)'],
-    ['Study file SHA-256', r.facts.studySha256 ?? '(study not embedded)'],
+    ['Workbook SHA-256', facts.workbookSha256 ?? '(no workbook exported with this packet)'],
+    ['Study file SHA-256', facts.studySha256 ?? '(study not embedded)'],
   ]);
   w.heading('Result');
   w.facts([
