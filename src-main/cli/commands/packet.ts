@@ -1,7 +1,8 @@
 import { parseArgs } from 'node:util';
 import { describeFinding } from '../../../shared-core/result.js';
 import { localTime } from '../../../shared-core/study/local-time.js';
-import { makePacket } from '../../services/packet/make-packet.js';
+import type { Paper } from '../../services/packet/packet-pdf.js';
+import { startPacketThreads, type PacketThreads } from '../../services/packet/packet-threads.js';
 import {
   keyOptions,
   keyUsage,
@@ -9,8 +10,7 @@ import {
   refuseCommandLinePassphrase,
   keyOrUsageError,
 } from '../../services/signing/key-flags.js';
-import { openSigningIdentity } from '../../services/signing/key-source.js';
-import { KeyError } from '../../services/signing/signing-identity.js';
+import { KeyError, type SigningIdentity } from '../../services/signing/signing-identity.js';
 import { exitOnInputError } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger packet STUDY --pdf OUT.pdf --xlsx OUT.xlsx [--p12 FILE --passphrase-env VAR]
@@ -60,20 +60,38 @@ async function packet(argv: string[]): Promise<number> {
   const paper = values.paper.toLowerCase();
   if (paper !== 'a4' && paper !== 'letter')
     throw new KeyError(`--paper must be a4 or letter, not "${values.paper}"`);
-  // The key opens (600,000 PBKDF2 iterations, off the main thread) while the packet is drawn.
-  const opening = values.p12
-    ? openSigningIdentity(values.p12, await passphraseFrom(values, `Passphrase for ${values.p12}: `))
+  // The workbook's and the PDF's threads start before the modules that open the study and the
+  // key load here (imported only now), so that exceljs and pdfkit load beside them.
+  const threads = startPacketThreads();
+  try {
+    const key = values.p12
+      ? { path: values.p12, passphrase: await passphraseFrom(values, `Passphrase for ${values.p12}: `) }
+      : undefined;
+    return await writePacket({ studyPath, pdfPath: values.pdf, xlsxPath: values.xlsx, paper, threads }, key);
+  } finally {
+    await threads.stop();
+  }
+}
+
+async function writePacket(
+  request: { studyPath: string; pdfPath: string; xlsxPath: string; paper: Paper; threads: PacketThreads },
+  key: { path: string; passphrase: string } | undefined,
+): Promise<number> {
+  // The key opens (600,000 PBKDF2 iterations, off the main thread) once the workbook and the PDF
+  // are under way, its modules loading meanwhile; the signature waits for it, the drawing does not.
+  let identity: Promise<SigningIdentity> | undefined;
+  const openKey = key
+    ? () =>
+        (identity = import('../../services/signing/key-source.js').then(({ openSigningIdentity }) =>
+          openSigningIdentity(key.path, key.passphrase),
+        ))
     : undefined;
-  opening?.catch(() => undefined); // awaited below; this only marks an early failure as handled
-  const identity = opening;
   const tty = process.stderr.isTTY;
+  const { makePacket } = await import('../../services/packet/make-packet.js');
   const made = await makePacket({
-    studyPath,
-    pdfPath: values.pdf,
-    xlsxPath: values.xlsx,
-    paper,
+    ...request,
     now: localTime(Date.now(), -new Date().getTimezoneOffset()),
-    ...(identity ? { identity } : {}),
+    ...(openKey ? { identity: openKey } : {}),
     ...(tty
       ? {
           onProgress: (fraction: number, what: string) =>

@@ -1,9 +1,6 @@
 import { createHash, randomBytes } from 'node:crypto';
-import { existsSync } from 'node:fs';
 import { readFile, rename, writeFile, unlink } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
-import { Worker } from 'node:worker_threads';
 import { fail, ok, type Result } from '../../../shared-core/result.js';
 import { openStudyFile } from '../study-file.js';
 import type { SigningIdentity } from '../signing/signing-identity.js';
@@ -14,7 +11,7 @@ import type { PacketContent } from './packet-content.js';
 import type { PacketFacts } from './packet-facts.js';
 import { packetContent, packetRevision } from './packet-from-study.js';
 import type { Paper } from './packet-pdf.js';
-import { signPdf } from './pdf-signature.js';
+import { buildWorkbookHere, drawPdfHere, startPacketThreads, type PacketThreads } from './packet-threads.js';
 
 export interface PacketFiles {
   pdf: Buffer;
@@ -27,11 +24,15 @@ export interface PacketFiles {
 
 export interface PacketOptions {
   paper: Paper;
-  /** The signing key, or the promise of it while it opens (drawing the packet need not wait). */
-  identity?: SigningIdentity | Promise<SigningIdentity>;
+  /**
+   * The signing key, or the promise of it while it opens (drawing the packet need not wait), or a
+   * function that opens it, called once the workbook and the PDF are under way: its modules and its
+   * PBKDF2 then run beside them instead of before them.
+   */
+  identity?: SigningIdentity | Promise<SigningIdentity> | (() => Promise<SigningIdentity>);
   onProgress?: (fraction: number, what: string) => void;
-  /** Builds the workbook; by default in this thread. makePacket passes a worker thread's. */
-  buildWorkbook?: (content: PacketContent) => Promise<Buffer>;
+  /** Where the workbook and the PDF are made; by default in this thread. makePacket passes its threads. */
+  threads?: Pick<PacketThreads, 'buildWorkbook' | 'drawPdf'>;
 }
 
 const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
@@ -44,43 +45,43 @@ const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest(
 export async function packetFiles(content: PacketContent, options: PacketOptions): Promise<PacketFiles> {
   const progress = options.onProgress ?? (() => undefined);
   progress(0.05, 'workbook');
-  const building = (options.buildWorkbook ?? buildWorkbookHere)(content);
-  // pdfkit loads and the PDF's fonts open while the workbook is built (in a worker, on another core).
-  const stated = building.then((workbook) => {
-    progress(0.25, 'PDF');
-    return { workbook, facts: packetFacts(content, workbook) };
-  });
+  const building = (options.threads?.buildWorkbook ?? buildWorkbookHere)(content);
+  // The PDF is drawn meanwhile (in a thread of its own when there is one); only its cover waits for
+  // the workbook's hash.
+  const stated = building.then((workbook) => ({ workbook, facts: packetFacts(content, workbook) }));
   stated.catch(() => undefined); // awaited below; this only marks an early failure as handled
-  const { buildPacketPdf } = await import('./packet-pdf.js');
-  let pdf = await buildPacketPdf(content, {
+  const facts = stated.then((s) => s.facts);
+  facts.catch(() => undefined); // the drawing awaits it only for the cover, after the other pages
+  const drawing = (options.threads?.drawPdf ?? drawPdfHere)(content, {
     paper: options.paper,
-    facts: stated.then((s) => s.facts),
-    onProgress: (f) => progress(0.25 + f * 0.6, 'PDF'),
+    facts,
+    onProgress: (f) => progress(0.05 + f * 0.8, 'PDF'),
   });
-  const { workbook, facts } = await stated;
-  if (options.identity) {
+  drawing.catch(() => undefined); // awaited below; this only marks an early failure as handled
+  const key = options.identity;
+  const identity = key && Promise.resolve(typeof key === 'function' ? key() : key);
+  identity?.catch(() => undefined); // awaited below; this only marks an early failure as handled
+  const signer = identity && import('./pdf-signature.js'); // loads while the threads work
+  // Made while the threads work: the exports, from the same layout as the PDF's chart.
+  const result = content.result;
+  const unit = content.identity.inspectionUnit || 'inspection unit';
+  const title = `${result.chart} chart: ${content.title}`;
+  const exports = {
+    csv: limitsCsv(result, unit),
+    json: limitsJson(result, unit, content.studyId),
+    svg: chartSvg(layoutChart(result, { inspectionUnit: unit, title }, 720, 400), title),
+  };
+  let pdf = await drawing;
+  const { workbook } = await stated;
+  if (identity && signer) {
     progress(0.88, 'signature');
-    pdf = await signPdf(pdf, await options.identity, {
+    const { signPdf } = await signer;
+    pdf = await signPdf(pdf, await identity, {
       reason: `Approval packet, study ${content.studyId}, revision ${content.revision.number}`,
     });
   }
-  const result = content.result;
-  const unit = content.identity.inspectionUnit || 'inspection unit';
-  const drawing = layoutChart(
-    result,
-    { inspectionUnit: unit, title: `${result.chart} chart: ${content.title}` },
-    720,
-    400,
-  );
   progress(1, 'done');
-  return {
-    pdf,
-    workbook,
-    facts,
-    csv: limitsCsv(result, unit),
-    json: limitsJson(result, unit, content.studyId),
-    svg: chartSvg(drawing, `${result.chart} chart: ${content.title}`),
-  };
+  return { pdf, workbook, facts: await facts, ...exports };
 }
 
 /** What the PDF states for verify, with the SHA-256 of the workbook exported beside it. */
@@ -113,16 +114,17 @@ export interface PacketRequest extends PacketOptions {
 
 /** Reads the study, makes the packet and writes every file (each atomically); returns the paths. */
 export async function makePacket(request: PacketRequest): Promise<Result<string[]>> {
-  // Started first, so that the worker loads exceljs while this thread opens the study.
-  const worker = startWorkbookWorker();
+  // The threads start first, so that they load exceljs and pdfkit while this one opens the study.
+  if (request.threads) return writePacket(request);
+  const threads = startPacketThreads();
   try {
-    return await writePacket(request, worker);
+    return await writePacket({ ...request, threads });
   } finally {
-    await worker?.stop();
+    await threads.stop();
   }
 }
 
-async function writePacket(request: PacketRequest, worker: WorkbookWorker | null): Promise<Result<string[]>> {
+async function writePacket(request: PacketRequest): Promise<Result<string[]>> {
   const opened = await openStudyFile(request.studyPath);
   if (!opened.ok) return opened;
   if (opened.value.readOnly) {
@@ -149,10 +151,7 @@ async function writePacket(request: PacketRequest, worker: WorkbookWorker | null
     generatedAt: request.now,
   });
   if (!content.ok) return content;
-  const files = await packetFiles(content.value, {
-    ...request,
-    buildWorkbook: (c) => (worker ? worker.build(c) : buildWorkbookHere(c)),
-  });
+  const files = await packetFiles(content.value, request);
   const stem = request.pdfPath.replace(/\.pdf$/i, '');
   const outputs: [string, Uint8Array | string][] = [
     [request.xlsxPath, files.workbook],
@@ -163,54 +162,6 @@ async function writePacket(request: PacketRequest, worker: WorkbookWorker | null
   ];
   for (const [path, bytes] of outputs) await writeAtomically(path, bytes);
   return ok(outputs.map(([path]) => path));
-}
-
-async function buildWorkbookHere(content: PacketContent): Promise<Buffer> {
-  const { buildWorkbook } = await import('./packet-workbook.js');
-  return buildWorkbook(content);
-}
-
-interface WorkbookWorker {
-  build(content: PacketContent): Promise<Buffer>;
-  stop(): Promise<void>;
-}
-
-type WorkerReply = { ok: true; bytes: Uint8Array } | { ok: false; message: string };
-
-/**
- * A worker thread that builds one workbook, or null where there is no built worker script (the
- * TypeScript sources under test): the workbook is then built in this thread, as it is when the
- * worker fails to start or dies.
- */
-function startWorkbookWorker(): WorkbookWorker | null {
-  const script = new URL('./workbook-worker.js', import.meta.url);
-  if (script.protocol !== 'file:' || !existsSync(fileURLToPath(script))) return null;
-  let worker: Worker;
-  try {
-    worker = new Worker(script);
-  } catch {
-    return null;
-  }
-  let failed: Error | null = null;
-  const reply = new Promise<WorkerReply>((resolve, reject) => {
-    worker.once('message', resolve);
-    worker.once('error', (error) => reject((failed = error)));
-    worker.once('exit', (code) => reject((failed ??= new Error(`the workbook worker stopped (${code})`))));
-  });
-  reply.catch(() => undefined);
-  return {
-    async build(content) {
-      if (failed) return buildWorkbookHere(content);
-      worker.postMessage(content);
-      const answer = await reply.catch(() => null);
-      if (!answer) return buildWorkbookHere(content);
-      if (!answer.ok) throw new Error(answer.message);
-      return Buffer.from(answer.bytes.buffer, answer.bytes.byteOffset, answer.bytes.length);
-    },
-    async stop() {
-      await worker.terminate();
-    },
-  };
 }
 
 export async function writeAtomically(path: string, bytes: Uint8Array | string): Promise<void> {
