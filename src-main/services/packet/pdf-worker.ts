@@ -1,6 +1,7 @@
 import { parentPort } from 'node:worker_threads';
 import type { PacketFacts } from './packet-facts.js';
 import type { PdfThreadMessage, ThreadReply } from './packet-threads.js';
+import { deferWoff2Decoder } from './woff2-on-demand.js';
 
 /**
  * Draws the packet's PDF in a worker thread (see packet-threads.ts). pdfkit and its fonts load at
@@ -8,6 +9,7 @@ import type { PdfThreadMessage, ThreadReply } from './packet-threads.js';
  * the facts (the workbook's hash, which the cover prints) in a later one, so the pages after the
  * cover are drawn meanwhile. The unsigned PDF goes back as bytes (or the error's message).
  */
+deferWoff2Decoder();
 const loading = import('./packet-pdf.js');
 let factsArrived: (facts: PacketFacts) => void = () => undefined;
 const facts = new Promise<PacketFacts>((resolve) => (factsArrived = resolve));
