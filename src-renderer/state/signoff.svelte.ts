@@ -15,10 +15,15 @@ function toBase64(bytes: Uint8Array): string {
 
 function messageOf(error: unknown): string {
   if (error instanceof ApiError && error.code === 'cancelled') return 'Cancelled; nothing was changed.';
-  if (error instanceof ApiError && error.issues.length > 0)
-    return `${error.message}: ${error.issues.join('; ')}`;
+  if (error instanceof ApiError) {
+    // A host often words its one issue as the message itself: say each thing once.
+    const more = error.issues.filter((issue) => !error.message.includes(issue));
+    if (more.length > 0) return `${error.message}: ${more.join('; ')}`;
+  }
   return error instanceof Error ? error.message : String(error);
 }
+
+export type SignOffAction = 'sign' | 'export' | 'key';
 
 /** The Sign-off screen: who signs with which key, then the packet export with progress and cancel. */
 class SignOff {
@@ -36,7 +41,9 @@ class SignOff {
   newKeyOrganization = $state('');
   newKeyPassphrase = $state('');
   newKeyRepeat = $state('');
-  busy = $state<'' | 'sign' | 'export' | 'key'>('');
+  busy = $state<'' | SignOffAction>('');
+  /** The action the message or error below is about: the screen shows it beside that action's button. */
+  about = $state<SignOffAction>('sign');
   progress = $state(0);
   progressMessage = $state('');
   message = $state('');
@@ -50,7 +57,7 @@ class SignOff {
   #keyHandle: FileHandle | null = null;
 
   chooseKeyFile(file: File): void {
-    this.error = '';
+    this.#report('sign');
     this.#keyFile = file;
     this.#keyHandle = null;
     this.key = { fileName: file.name };
@@ -69,7 +76,7 @@ class SignOff {
 
   /** In the desktop app the key file comes from the system's dialog; the page never sees its path. */
   async chooseKeyWithDialog(): Promise<void> {
-    this.error = '';
+    this.#report('sign');
     try {
       const chosen = await api.chooseFile({ purpose: 'key' });
       if (chosen) {
@@ -93,7 +100,7 @@ class SignOff {
     if (this.newKeyPassphrase.length < 8) missing.push('a passphrase of at least 8 characters');
     else if (this.newKeyPassphrase !== this.newKeyRepeat) missing.push('the same passphrase typed twice');
     if (missing.length > 0) {
-      this.error = `Still needed for a personal certificate: ${missing.join(', ')}.`;
+      this.#report('key', `Still needed for a personal certificate: ${missing.join(', ')}.`);
       return;
     }
     await this.#run('key', async (signal) => {
@@ -114,6 +121,8 @@ class SignOff {
       this.newKeyPassphrase = '';
       this.newKeyRepeat = '';
       this.newKeyOpen = false;
+      // The form folds away: what it made is said beside Sign, the next step.
+      this.about = 'sign';
       this.message = `Made a self-issued certificate for ${made.commonName} (${made.fingerprint.slice(0, 16)}…), kept encrypted as ${made.key.fileName} in the app's data folder. Sign with it using the passphrase you just chose.`;
     });
   }
@@ -130,7 +139,7 @@ class SignOff {
   async sign(): Promise<void> {
     const document = study.document;
     if (!document || !this.key || this.missing.length > 0) {
-      this.error = `Still needed: ${this.missing.join(', ')}.`;
+      this.#report('sign', `Still needed: ${this.missing.join(', ')}.`);
       return;
     }
     await this.#run('sign', async (signal) => {
@@ -160,7 +169,10 @@ class SignOff {
     if (!document) return;
     const signing = format === 'pdf' && this.signPacket;
     if (signing && (!this.key || !this.packetPassphrase)) {
-      this.error = `Still needed for the PDF signature: ${!this.key ? 'a key file (.p12), chosen under Sign' : 'the passphrase of the key'}; or export it unsigned.`;
+      this.#report(
+        'export',
+        `Still needed for the PDF signature: ${!this.key ? 'a key file (.p12), chosen under Sign' : 'the passphrase of the key'}; or export it unsigned.`,
+      );
       return;
     }
     await this.#run('export', async (signal) => {
@@ -209,7 +221,7 @@ class SignOff {
   async revealLast(): Promise<void> {
     const handle = this.lastExport?.handle;
     if (!this.canReveal || handle === undefined) return;
-    this.error = '';
+    this.#report('export');
     try {
       await api.revealExport({ file: handle });
     } catch (error) {
@@ -226,9 +238,15 @@ class SignOff {
     this.progressMessage = message;
   }
 
-  async #run(kind: 'sign' | 'export' | 'key', work: (signal: AbortSignal) => Promise<void>): Promise<void> {
-    this.error = '';
+  /** Clears what was said, and says `error` (if any) about `action`. */
+  #report(action: SignOffAction, error = ''): void {
+    this.about = action;
     this.message = '';
+    this.error = error;
+  }
+
+  async #run(kind: SignOffAction, work: (signal: AbortSignal) => Promise<void>): Promise<void> {
+    this.#report(kind);
     this.busy = kind;
     this.progress = 0;
     this.#abort = new AbortController();
