@@ -5,8 +5,25 @@
 export function formatNumber(value: number | null, locale?: string, significant = 4): string {
   if (value === null) return 'none';
   if (!Number.isFinite(value)) return String(value);
-  if (Number.isInteger(value) && Math.abs(value) < 1e9) return new Intl.NumberFormat(locale).format(value);
-  return new Intl.NumberFormat(locale, { maximumSignificantDigits: significant }).format(value);
+  if (Number.isInteger(value) && Math.abs(value) < 1e9) return numberFormat(locale, 0).format(value);
+  return numberFormat(locale, significant).format(value);
+}
+
+// Making an Intl.NumberFormat costs far more than using one, and a table formats hundreds of cells.
+const formats = new Map<string, Intl.NumberFormat>();
+
+/** A cached formatter: plain (significant 0) or to `significant` significant digits. */
+function numberFormat(locale: string | undefined, significant: number): Intl.NumberFormat {
+  const key = `${locale ?? ''}|${significant}`;
+  let format = formats.get(key);
+  if (!format) {
+    format = new Intl.NumberFormat(
+      locale,
+      significant === 0 ? undefined : { maximumSignificantDigits: significant },
+    );
+    formats.set(key, format);
+  }
+  return format;
 }
 
 export function formatPercent(value: number, locale?: string, significant = 3): string {

@@ -181,6 +181,17 @@ describe('words', () => {
     expect(formatDate('2026-03-05', 'en-US')).toBe('Mar 5, 2026');
     expect(formatDate('not a date')).toBe('not a date');
   });
+
+  it('keeps each locale and precision apart when it reuses its number formats', () => {
+    // Alternating calls: a formatter kept for one locale or precision must not answer for another.
+    for (let round = 0; round < 2; round++) {
+      expect(formatNumber(1234.5678, 'de-DE')).toBe('1.235');
+      expect(formatNumber(1234.5678, 'en-US')).toBe('1,235');
+      expect(formatNumber(1234.5678, 'en-US', 6)).toBe('1,234.57');
+      expect(formatNumber(1234, 'de-DE')).toBe('1.234');
+      expect(formatNumber(1234, 'en-US', 2)).toBe('1,234');
+    }
+  });
 });
 
 describe('thinForDisplay', () => {
