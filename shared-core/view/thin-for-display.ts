@@ -14,33 +14,45 @@ export function thinForDisplay<T extends { x: number; y: number | null }>(
   if (columns < 1 || points.length <= 4 * columns) return [...points];
   const span = range.to - range.from || 1;
   const keep = new Uint8Array(points.length);
+  // Plain loops and no array per column: this runs for every line of a 5,000-period chart at each redraw.
   let column = -1;
   let first = -1;
   let low = -1;
   let high = -1;
   let last = -1;
-  const flush = () => {
-    for (const index of [first, low, high, last]) if (index >= 0) keep[index] = 1;
-  };
-  points.forEach((point, index) => {
-    const y = point.y;
+  let lowY = 0;
+  let highY = 0;
+  for (let index = 0; index < points.length; index++) {
+    const y = points[index].y;
     if (y === null) {
       keep[index] = 1;
       if (index > 0) keep[index - 1] = 1;
       if (index + 1 < points.length) keep[index + 1] = 1;
-      return;
+      continue;
     }
-    const at = Math.min(columns - 1, Math.max(0, Math.floor(((point.x - range.from) / span) * columns)));
+    const at = Math.min(
+      columns - 1,
+      Math.max(0, Math.floor(((points[index].x - range.from) / span) * columns)),
+    );
     if (at !== column) {
-      flush();
+      if (first >= 0) keep[first] = keep[low] = keep[high] = keep[last] = 1;
       column = at;
       first = low = high = last = index;
-      return;
+      lowY = highY = y;
+      continue;
     }
     last = index;
-    if (y < (points[low].y as number)) low = index;
-    if (y > (points[high].y as number)) high = index;
-  });
-  flush();
-  return points.filter((_, index) => keep[index] === 1);
+    if (y < lowY) {
+      low = index;
+      lowY = y;
+    }
+    if (y > highY) {
+      high = index;
+      highY = y;
+    }
+  }
+  if (first >= 0) keep[first] = keep[low] = keep[high] = keep[last] = 1;
+  const kept: T[] = [];
+  for (let index = 0; index < points.length; index++) if (keep[index] === 1) kept.push(points[index]);
+  return kept;
 }

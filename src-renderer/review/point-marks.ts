@@ -1,46 +1,57 @@
 import type { PeriodStatus } from '../../shared-core/study/analysis-types.js';
 import { colors } from './chart-colors.js';
 
-/** A hollow square with a cross, for excluded periods (chart.js takes a canvas as a point style). */
-function excludedMark(size: number): HTMLCanvasElement | 'rect' {
-  if (typeof document === 'undefined') return 'rect';
-  const canvas = document.createElement('canvas');
-  const ratio = globalThis.devicePixelRatio || 1;
-  canvas.width = canvas.height = Math.ceil(size * ratio);
-  canvas.style.width = canvas.style.height = `${size}px`;
-  const context = canvas.getContext('2d');
-  if (!context) return 'rect';
-  context.scale(ratio, ratio);
-  context.strokeStyle = colors.excluded;
-  context.lineWidth = 1.5;
-  const inset = 1.5;
-  context.strokeRect(inset, inset, size - 2 * inset, size - 2 * inset);
-  context.beginPath();
-  context.moveTo(inset, inset);
-  context.lineTo(size - inset, size - inset);
-  context.moveTo(size - inset, inset);
-  context.lineTo(inset, size - inset);
-  context.stroke();
-  return canvas;
+/** How a period's mark is painted: DESIGN.md's ink dot, amber triangle, hollow square with a cross. */
+export interface MarkPaint {
+  fill: string | null;
+  stroke: string | null;
+  lineWidth: number;
 }
 
-let cachedExcluded: HTMLCanvasElement | 'rect' | undefined;
-
-export interface PointMark {
-  style: 'circle' | 'triangle' | 'rect' | HTMLCanvasElement;
-  radius: number;
-  fill: string;
-  stroke: string;
-}
-
-export function pointMark(status: PeriodStatus): PointMark {
+export function markPaint(status: PeriodStatus): MarkPaint {
   switch (status) {
     case 'signal':
-      return { style: 'triangle', radius: 6, fill: colors.signal, stroke: colors.signal };
+      return { fill: colors.signal, stroke: colors.signal, lineWidth: 1 };
     case 'excluded':
-      cachedExcluded ??= excludedMark(11);
-      return { style: cachedExcluded, radius: 6, fill: 'transparent', stroke: colors.excluded };
+      return { fill: null, stroke: colors.excluded, lineWidth: 1.5 };
     default:
-      return { style: 'circle', radius: 2.5, fill: colors.ink, stroke: colors.ink };
+      // A solid disc the size of the former dot with its outline, filled once instead of filled and stroked.
+      return { fill: colors.ink, stroke: null, lineWidth: 0 };
+  }
+}
+
+/** Half the width of each mark's shape in CSS pixels (an outline adds half its line width). */
+export const markRadius = { in: 3, signal: 6, excluded: 4 } as const satisfies Record<PeriodStatus, number>;
+
+const third = (2 * Math.PI) / 3;
+
+/**
+ * Adds one mark's outline to the current path, so that every mark of a status is filled and
+ * stroked in a single call however many periods there are.
+ */
+export function traceMark(
+  context: CanvasRenderingContext2D,
+  status: PeriodStatus,
+  x: number,
+  y: number,
+): void {
+  const r = markRadius[status];
+  if (status === 'signal') {
+    // An upright triangle inscribed in a circle of radius r. Its outline is closed by a line back
+    // to the top, not closePath: the canvas slows down badly with a closePath per mark in one path.
+    context.moveTo(x, y - r);
+    context.lineTo(x + Math.sin(third) * r, y - Math.cos(third) * r);
+    context.lineTo(x + Math.sin(2 * third) * r, y - Math.cos(2 * third) * r);
+    context.lineTo(x, y - r);
+  } else if (status === 'excluded') {
+    context.rect(x - r, y - r, 2 * r, 2 * r);
+    context.moveTo(x - r, y - r);
+    context.lineTo(x + r, y + r);
+    context.moveTo(x + r, y - r);
+    context.lineTo(x - r, y + r);
+  } else {
+    // A full turn closes itself (see above about closePath).
+    context.moveTo(x + r, y);
+    context.arc(x, y, r, 0, 2 * Math.PI);
   }
 }
