@@ -1,3 +1,5 @@
+import { errorText } from '../transport/error-text.js';
+import { toBase64 } from '../transport/base64.js';
 import Papa from 'papaparse';
 import { api, ApiError } from '../transport/index.js';
 import type { FileHandle } from '../../shared-core/api.js';
@@ -26,14 +28,6 @@ export interface MappingChoice {
   eventPeriod: 'lot' | 'shift' | 'day' | 'week';
   eventTime: string;
   eventCategory: string;
-}
-
-function toBase64(bytes: Uint8Array): string {
-  let binary = '';
-  const chunk = 0x8000;
-  for (let i = 0; i < bytes.length; i += chunk)
-    binary += String.fromCharCode(...bytes.subarray(i, i + chunk));
-  return btoa(binary);
 }
 
 /** Guesses a column for a role from its header name (the user confirms in the mapping). */
@@ -137,7 +131,7 @@ export class DataImport {
         this.#previewText(handle, new TextDecoder().decode(bytes.subarray(0, 256 * 1024)));
       }
     } catch (error) {
-      this.error = messageOf(error);
+      this.error = errorText(error);
     }
   }
 
@@ -249,7 +243,7 @@ export class DataImport {
       this.error =
         error instanceof ApiError && error.code === 'cancelled'
           ? 'The import was cancelled; nothing changed.'
-          : messageOf(error);
+          : errorText(error);
       this.step = 'map';
     } finally {
       this.#abort = null;
@@ -263,12 +257,6 @@ export class DataImport {
   review(): void {
     navigation.go('review');
   }
-}
-
-function messageOf(error: unknown): string {
-  if (error instanceof ApiError && error.issues.length > 0)
-    return `${error.message}: ${error.issues.join('; ')}`;
-  return error instanceof Error ? error.message : String(error);
 }
 
 export const dataImport = new DataImport();

@@ -1,4 +1,7 @@
-import { api, ApiError, hostKind, type Api } from '../transport/index.js';
+import { errorText } from '../transport/error-text.js';
+import { changes } from './changes.svelte.js';
+import { toBase64 } from '../transport/base64.js';
+import { api, hostKind, type Api } from '../transport/index.js';
 import type { FileHandle, HostEvent, ResponseOf } from '../../shared-core/api.js';
 import { describeFinding } from '../../shared-core/result.js';
 import { study, type StudyState } from './study.svelte.js';
@@ -8,6 +11,15 @@ import { dataImport } from './data-import.svelte.js';
 
 export type RecoveryCopy = ResponseOf<'listRecovery'>['copies'][number];
 export type HostInfo = ResponseOf<'hostInfo'>;
+
+/** An importer a file can be handed to (the Data screen's, or the Changes screen's for new periods). */
+export interface FileImporter {
+  step: string;
+  error: string;
+  reset(): void;
+  inspect(file: FileHandle): Promise<void>;
+  chooseFile(file: File): Promise<void>;
+}
 
 /** What the shell wiring reaches: the host's api and the state modules the buttons already use. */
 export interface ShellDependencies {
@@ -34,36 +46,19 @@ export interface ShellDependencies {
     open(): Promise<boolean>;
     opened(file: FileHandle | null): void;
   };
-  navigation: { go(screen: ScreenId): void };
-  dataImport: {
-    step: string;
-    error: string;
-    reset(): void;
-    inspect(file: FileHandle): Promise<void>;
-    chooseFile(file: File): Promise<void>;
-  };
+  navigation: { readonly screen: ScreenId; go(screen: ScreenId): void };
+  dataImport: FileImporter;
+  /** The Changes screen's importer of new periods: `showing` while that screen offers it. */
+  newPeriods: { readonly showing: boolean; importer(): FileImporter };
   confirm(message: string): boolean;
   hostKind: 'electron' | 'web';
   /** How long after the last decision the recovery copy is written. */
   autosaveDelay?: number;
 }
 
-function messageOf(error: unknown): string {
-  if (error instanceof ApiError && error.issues.length > 0)
-    return `${error.message}: ${error.issues.join('; ')}`;
-  return error instanceof Error ? error.message : String(error);
-}
-
 /** A recorded time in the reader's local form; a value, not reactive state. */
 function shownTime(iso: string): string {
   return new globalThis.Date(iso).toLocaleString();
-}
-
-function toBase64(bytes: Uint8Array): string {
-  let binary = '';
-  for (let i = 0; i < bytes.length; i += 0x8000)
-    binary += String.fromCharCode(...bytes.subarray(i, i + 0x8000));
-  return btoa(binary);
 }
 
 /** Ctrl+Z in a text field belongs to the field, not to the study's decisions (as in keyboard.ts). */
@@ -169,15 +164,27 @@ export class ShellEvents {
     if (await this.#deps.studyFile.open()) this.#deps.navigation.go('review');
   }
 
+  /**
+   * Where a data file that reaches the window goes: into the open study as new periods while the
+   * Changes screen offers that, else to a new study's import on the Data screen. Ready for a file.
+   */
+  #importerForData(): FileImporter {
+    const { navigation, newPeriods, dataImport } = this.#deps;
+    const importer =
+      navigation.screen === 'changes' && newPeriods.showing ? newPeriods.importer() : dataImport;
+    if (importer === dataImport) navigation.go('data');
+    if (importer.step === 'done' || importer.step === 'map') importer.reset();
+    return importer;
+  }
+
   async fileOpened(file: FileHandle, purpose: string): Promise<void> {
-    const { api, study, studyFile, navigation, dataImport } = this.#deps;
+    const { api, study, studyFile, navigation } = this.#deps;
     if (purpose === 'data') {
-      if (dataImport.step === 'done' || dataImport.step === 'map') dataImport.reset();
-      navigation.go('data');
+      const importer = this.#importerForData();
       try {
-        await dataImport.inspect(file);
+        await importer.inspect(file);
       } catch (error) {
-        dataImport.error = `${file.fileName} could not be read: ${messageOf(error)}`;
+        importer.error = `${file.fileName} could not be read: ${errorText(error)}`;
       }
       return;
     }
@@ -203,7 +210,7 @@ export class ShellEvents {
         : `Opened ${file.fileName}.`;
       navigation.go('review');
     } catch (error) {
-      studyFile.error = `${file.fileName} could not be opened: ${messageOf(error)}`;
+      studyFile.error = `${file.fileName} could not be opened: ${errorText(error)}`;
     }
   }
 
@@ -251,11 +258,9 @@ export class ShellEvents {
     const file = event.dataTransfer?.files[0];
     if (!file) return;
     event.preventDefault();
-    const { api, studyFile, navigation, dataImport } = this.#deps;
+    const { api, studyFile } = this.#deps;
     if (!/\.ledger$/i.test(file.name)) {
-      navigation.go('data');
-      if (dataImport.step === 'done' || dataImport.step === 'map') dataImport.reset();
-      await dataImport.chooseFile(file);
+      await this.#importerForData().chooseFile(file);
       return;
     }
     try {
@@ -264,7 +269,7 @@ export class ShellEvents {
       const uploaded = await api.uploadFile({ purpose: 'study', fileName: safeName, bytes });
       await this.fileOpened(uploaded, 'study');
     } catch (error) {
-      studyFile.error = `${file.name} could not be opened: ${messageOf(error)}`;
+      studyFile.error = `${file.name} could not be opened: ${errorText(error)}`;
     }
   }
 
@@ -299,7 +304,7 @@ export class ShellEvents {
       this.recovery = this.recovery.filter((c) => c !== copy);
       navigation.go('review');
     } catch (error) {
-      this.recoveryError = messageOf(error);
+      this.recoveryError = errorText(error);
     } finally {
       this.recoveryBusy = false;
     }
@@ -312,7 +317,7 @@ export class ShellEvents {
       await this.#deps.api.discardRecovery({ file: copy.recovery.handle });
       this.recovery = this.recovery.filter((c) => c !== copy);
     } catch (error) {
-      this.recoveryError = messageOf(error);
+      this.recoveryError = errorText(error);
     } finally {
       this.recoveryBusy = false;
     }
@@ -346,6 +351,12 @@ export const shellEvents = new ShellEvents({
   studyFile,
   navigation,
   dataImport,
+  newPeriods: {
+    get showing() {
+      return study.document !== null && changes.approved !== null;
+    },
+    importer: () => changes.newPeriodsImporter(),
+  },
   confirm: (message) => globalThis.confirm(message),
   hostKind,
 });

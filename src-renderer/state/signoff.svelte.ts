@@ -1,27 +1,12 @@
-import { api, ApiError, hostKind } from '../transport/index.js';
+import { errorText } from '../transport/error-text.js';
+import { toBase64 } from '../transport/base64.js';
+import { api, hostKind } from '../transport/index.js';
 import type { FileHandle } from '../../shared-core/api.js';
 import { studySchema } from '../../shared-core/study/study-schema.js';
 import { study } from './study.svelte.js';
 import { saveDownload } from './downloads.js';
 
 type Meaning = 'prepared' | 'reviewed' | 'approved';
-
-function toBase64(bytes: Uint8Array): string {
-  let binary = '';
-  for (let i = 0; i < bytes.length; i += 0x8000)
-    binary += String.fromCharCode(...bytes.subarray(i, i + 0x8000));
-  return btoa(binary);
-}
-
-function messageOf(error: unknown): string {
-  if (error instanceof ApiError && error.code === 'cancelled') return 'Cancelled; nothing was changed.';
-  if (error instanceof ApiError) {
-    // A host often words its one issue as the message itself: say each thing once.
-    const more = error.issues.filter((issue) => !error.message.includes(issue));
-    if (more.length > 0) return `${error.message}: ${more.join('; ')}`;
-  }
-  return error instanceof Error ? error.message : String(error);
-}
 
 export type SignOffAction = 'sign' | 'export' | 'key';
 
@@ -86,7 +71,7 @@ class SignOff {
         this.signPacket = true;
       }
     } catch (error) {
-      this.error = messageOf(error);
+      this.error = errorText(error);
     }
   }
 
@@ -225,7 +210,7 @@ class SignOff {
     try {
       await api.revealExport({ file: handle });
     } catch (error) {
-      this.error = messageOf(error);
+      this.error = errorText(error);
     }
   }
 
@@ -253,7 +238,7 @@ class SignOff {
     try {
       await work(this.#abort.signal);
     } catch (error) {
-      this.error = messageOf(error);
+      this.error = errorText(error);
     } finally {
       this.busy = '';
       this.#abort = null;

@@ -1,11 +1,8 @@
+import { errorText } from '../transport/error-text.js';
 import { api, ApiError } from '../transport/index.js';
 import type { FileHandle } from '../../shared-core/api.js';
 import { describeFinding } from '../../shared-core/result.js';
 import { study } from './study.svelte.js';
-
-function messageOf(error: unknown): string {
-  return error instanceof Error ? error.message : String(error);
-}
 
 /**
  * Saving and opening `.ledger` files through the host (the page never names a path), and the
@@ -57,7 +54,7 @@ class StudyFile {
       this.status = `Saved ${outcome.file.fileName}${outcome.backupKept ? ' (previous version kept as a backup)' : ''}.`;
       await api.setUnsaved({ unsaved: false }).catch(() => undefined);
     } catch (error) {
-      this.error = messageOf(error);
+      this.error = errorText(error);
     }
   }
 
@@ -78,7 +75,7 @@ class StudyFile {
         : `Opened ${chosen.fileName}.`;
       return true;
     } catch (error) {
-      this.error = error instanceof ApiError ? error.message : messageOf(error);
+      this.error = error instanceof ApiError ? error.message : errorText(error);
       return false;
     }
   }
