@@ -130,6 +130,12 @@ class Changes {
   /** The importer of the Data screen, delivering into the open study instead of a new one. */
   readonly importer = new DataImport((imported) => this.append(imported));
 
+  /** The importer, ready for a file of new periods: they are counted in the study's own inspection unit. */
+  newPeriodsImporter(): DataImport {
+    this.importer.mapping.unitName = study.meta.unit;
+    return this.importer;
+  }
+
   /**
    * The evidence for the open draft. When the split where its new study starts was undone, the last
    * segment is no longer the draft's study: the comparison would mix approved and new periods, so

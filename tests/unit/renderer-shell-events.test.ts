@@ -60,6 +60,9 @@ function setup(
     hostKind?: 'electron' | 'web';
     openStudy?: (file: string) => unknown;
     copies?: RecoveryCopy[];
+    /** The screen shown when the event arrives, and whether Changes offers its importer there. */
+    screen?: ScreenId;
+    newPeriodsShowing?: boolean;
   } = {},
 ): Setup {
   const study = new StudyState();
@@ -67,7 +70,7 @@ function setup(
   const calls: Setup['calls'] = [];
   const actions: string[] = [];
   const listeners = new Set<(event: HostEvent) => void>();
-  let screen: ScreenId | null = null;
+  let screen: ScreenId | null = options.screen ?? null;
   const record = (channel: string, request: unknown): void => void calls.push({ channel, request });
 
   const api = {
@@ -142,12 +145,35 @@ function setup(
       actions.push(`choose ${file.name}`);
     },
   };
+  // The Changes screen's importer: its actions are told apart from the Data screen's.
+  const newPeriods: ShellDependencies['dataImport'] = {
+    step: 'choose',
+    error: '',
+    reset() {
+      actions.push('new-periods-reset');
+    },
+    async inspect(file) {
+      actions.push(`new periods: inspect ${file.handle}`);
+    },
+    async chooseFile(file) {
+      actions.push(`new periods: choose ${file.name}`);
+    },
+  };
   const shell = new ShellEvents({
     api,
     study,
     studyFile,
-    navigation: { go: (id) => void (screen = id) },
+    navigation: {
+      get screen() {
+        return screen ?? 'review';
+      },
+      go: (id) => void (screen = id),
+    },
     dataImport,
+    newPeriods: {
+      showing: options.newPeriodsShowing ?? false,
+      importer: () => newPeriods,
+    },
     confirm: (message) => {
       actions.push(`confirm: ${message.split('\n')[0]}`);
       return options.confirm ?? true;
@@ -308,6 +334,22 @@ describe('files that reach the window', () => {
     expect(s.calls).toEqual([]);
   });
 
+  it('adds a data file dropped on the Changes screen to the study as new periods', async () => {
+    const s = setup({ screen: 'changes', newPeriodsShowing: true });
+    const data = handle('after-approval.csv');
+    await s.shell.handle({ type: 'file-opened', file: data, purpose: 'data' });
+    expect(s.screen()).toBe('changes');
+    expect(s.actions).toEqual([`new periods: inspect ${data.handle}`]);
+  });
+
+  it('starts a new study from a file dropped on Changes when there are no approved limits to add to', async () => {
+    const s = setup({ screen: 'changes', newPeriodsShowing: false });
+    const data = handle('shifts.csv');
+    await s.shell.handle({ type: 'file-opened', file: data, purpose: 'data' });
+    expect(s.screen()).toBe('data');
+    expect(s.actions).toEqual([`inspect ${data.handle}`]);
+  });
+
   it('turns a failed read of a dropped data file into a message naming it', async () => {
     const s = setup();
     s.dataImport.inspect = async () => {
@@ -356,6 +398,13 @@ describe('files dropped on the window in the browser', () => {
     await s.shell.drop(dropOf(new File([bytes], 'shifts.csv')));
     expect(s.screen()).toBe('data');
     expect(s.actions).toEqual(['choose shifts.csv']);
+  });
+
+  it('adds a file dropped on the Changes screen to the study as new periods', async () => {
+    const s = setup({ hostKind: 'web', screen: 'changes', newPeriodsShowing: true });
+    await s.shell.drop(dropOf(new File([bytes], 'after-approval.csv')));
+    expect(s.screen()).toBe('changes');
+    expect(s.actions).toEqual(['new periods: choose after-approval.csv']);
   });
 
   it('leaves drops to the Data screen’s own zone, and to the preload on the desktop', async () => {
