@@ -26,11 +26,12 @@ export interface PlotFrame {
 }
 
 /**
- * The range the y axis must hold: the lowest and highest value of every line and mark, widened to
- * the next hundredth of its order of magnitude. chart.js still chooses the axis from it; the
- * widening is finer than any tick step it picks, so the axis comes out as for the exact values,
- * while a recompute that moves a limit slightly (an exclusion in a long history) gives the same
- * range and the redraw can skip laying out the axes again.
+ * The range the y axis must hold: the lowest and highest value of every line and mark, widened
+ * outward to a tenth of the range's order of magnitude (for a range of 5.5, to 0.1). chart.js
+ * still chooses the axis from it, and every tick step it can choose (at most 11 ticks, steps of
+ * 1, 2 or 5 times a power of ten) is a multiple of that grain, so the widening rarely changes
+ * the axis (at most to the next step, never hiding a value). A recompute that moves a limit a
+ * little (an exclusion) then gives the same range, and the redraw skips laying out the axes again.
  */
 export function axisExtent(series: ChartSeries): { low: number; high: number } {
   let low = Infinity;
@@ -43,7 +44,7 @@ export function axisExtent(series: ChartSeries): { low: number; high: number } {
       }
   if (!Number.isFinite(low)) return { low: 0, high: 1 };
   if (high === low) return { low, high };
-  const grain = 10 ** (Math.floor(Math.log10(high - low)) - 2);
+  const grain = 10 ** (Math.floor(Math.log10(high - low)) - 1);
   return { low: Math.floor(low / grain) * grain, high: Math.ceil(high / grain) * grain };
 }
 
