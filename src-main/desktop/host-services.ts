@@ -15,7 +15,7 @@ import { readSiteSettings, writeSiteSettings } from '../services/site-settings.j
 import { saveStudyFile } from '../services/study-file.js';
 import { hostClock, hostUser } from '../services/study-from-analysis.js';
 import type { HostServices } from './host-handlers.js';
-import { inspectData } from './inspect-data.js';
+import { inspectDataInThread } from '../services/import/inspect-data-thread.js';
 
 /** The study as the screens see it, lifted out of the document by the core's fold of its chain. */
 export function studyView(
@@ -130,7 +130,7 @@ export function nodeHostServices(folders: { siteSettings: string }): HostService
     },
 
     async inspectData({ fileName, bytes }) {
-      const preview = await inspectData(fileName, bytes);
+      const preview = await inspectDataInThread(fileName, bytes);
       return preview.ok ? preview : fail(...withoutFolders(preview.findings));
     },
 

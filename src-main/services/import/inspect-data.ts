@@ -1,11 +1,11 @@
 import { createHash } from 'node:crypto';
 import ExcelJS from 'exceljs';
-import { cellText, type DecodedTable } from '../../shared-core/import/decoded-table.js';
-import { fail, ok, type Result } from '../../shared-core/result.js';
-import { decodeText } from '../services/import/decode-text.js';
-import { delimitedTable } from '../services/import/delimited-table.js';
-import { xlsxTable } from '../services/import/xlsx-table.js';
-import { checkZipInflation } from '../services/import/zip-inflation-guard.js';
+import { cellText, type DecodedTable } from '../../../shared-core/import/decoded-table.js';
+import { fail, ok, type Result } from '../../../shared-core/result.js';
+import { decodeText } from './decode-text.js';
+import { delimitedTable } from './delimited-table.js';
+import { xlsxTable } from './xlsx-table.js';
+import { checkZipInflation } from './zip-inflation-guard.js';
 
 export interface DataPreview {
   sheets: string[];
