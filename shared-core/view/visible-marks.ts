@@ -17,16 +17,25 @@ export function visibleMarks(
   selected: number | null = null,
 ): number[] {
   const kept: number[] = [];
-  const taken = new Set<number>();
+  // The rows taken in each pixel column. Marks come in period order, so a column's marks mostly
+  // follow each other and the column's short list is looked up once for all of them.
+  const columns = new Map<number, number[]>();
+  let column = Number.NaN;
+  let rows: number[] = [];
   for (let index = 0; index < points.length; index++) {
     if (points[index].status !== 'in' || index === selected) {
       kept.push(index);
       continue;
     }
-    // A pixel as one number: a canvas is far less than 2^20 pixels wide or high.
-    const cell = Math.floor(pixelX[index]) * 1_048_576 + Math.floor(pixelY[index]);
-    if (taken.has(cell)) continue;
-    taken.add(cell);
+    const x = Math.floor(pixelX[index]);
+    const y = Math.floor(pixelY[index]);
+    if (x !== column) {
+      column = x;
+      rows = columns.get(x) ?? [];
+      if (rows.length === 0) columns.set(x, rows);
+    }
+    if (rows.includes(y)) continue;
+    rows.push(y);
     kept.push(index);
   }
   return kept;
