@@ -77,8 +77,8 @@ async function writePacket(
   request: { studyPath: string; pdfPath: string; xlsxPath: string; paper: Paper; threads: PacketThreads },
   key: { path: string; passphrase: string } | undefined,
 ): Promise<number> {
-  // The key opens (600,000 PBKDF2 iterations, off the main thread) once the workbook and the PDF
-  // are under way, its modules loading meanwhile; the signature waits for it, the drawing does not.
+  // The key opens (600,000 PBKDF2 iterations, off the main thread) while the PDF is drawn, once the
+  // workbook is built (makePacket calls openKey); the signature waits for it, the drawing does not.
   let identity: Promise<SigningIdentity> | undefined;
   const openKey = key
     ? () =>

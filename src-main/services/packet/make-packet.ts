@@ -26,8 +26,7 @@ export interface PacketOptions {
   paper: Paper;
   /**
    * The signing key, or the promise of it while it opens (drawing the packet need not wait), or a
-   * function that opens it, called once the workbook and the PDF are under way: its modules and its
-   * PBKDF2 then run beside them instead of before them.
+   * function that opens it, called once the workbook is built (see packetFiles).
    */
   identity?: SigningIdentity | Promise<SigningIdentity> | (() => Promise<SigningIdentity>);
   onProgress?: (fraction: number, what: string) => void;
@@ -58,8 +57,10 @@ export async function packetFiles(content: PacketContent, options: PacketOptions
     onProgress: (f) => progress(0.05 + f * 0.8, 'PDF'),
   });
   drawing.catch(() => undefined); // awaited below; this only marks an early failure as handled
+  // A key still to be opened opens once the workbook is built: its 600,000 PBKDF2 iterations then
+  // take the core the workbook leaves rather than the PDF's, which the signature waits for anyway.
   const key = options.identity;
-  const identity = key && Promise.resolve(typeof key === 'function' ? key() : key);
+  const identity = typeof key === 'function' ? building.then(key, key) : key && Promise.resolve(key);
   identity?.catch(() => undefined); // awaited below; this only marks an early failure as handled
   const signer = identity && import('./pdf-signature.js'); // loads while the threads work
   // Made while the threads work: the exports, from the same layout as the PDF's chart.
