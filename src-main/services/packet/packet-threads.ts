@@ -23,10 +23,9 @@ export interface PdfJob {
 
 /**
  * The packet's two worker threads: one builds the workbook, one draws the PDF, each on a core of
- * its own while this thread opens the study and the key. Started before the study's own modules
- * load, so that exceljs and pdfkit load beside them. Either is null where there is no built worker
- * script (the TypeScript sources under test) or it cannot start; its work is then done in this
- * thread, as it is when a thread dies.
+ * its own. Started before the study's own modules load, so that exceljs and pdfkit load while this
+ * thread opens the study. Where a thread's built script is missing (the TypeScript sources under
+ * test) or it cannot start, its work is done in this thread, as it is when a thread dies.
  */
 export interface PacketThreads {
   buildWorkbook(content: PacketContent): Promise<Buffer>;
