@@ -83,6 +83,17 @@ describe('the chart layout', () => {
     expect(texts).toContain('Nonconformities per inspection unit (50 m² of cloth)');
   });
 
+  it('labels a c chart with what one inspection counts', () => {
+    const drawing = layoutChart(
+      { ...result([{ units: 5 }, { units: 5 }]), chart: 'c' },
+      { inspectionUnit: 'panel', title: 't' },
+      500,
+      300,
+    );
+    const texts = drawing.primitives.map((p) => (p.kind === 'text' ? p.text : ''));
+    expect(texts).toContain('Nonconformities per inspection of 5 panels');
+  });
+
   it('becomes SVG with the same primitives, text escaped', () => {
     const drawing = layoutChart(
       result([{}, { status: 'signal', rate: 0.9 }]),

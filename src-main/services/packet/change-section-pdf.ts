@@ -1,4 +1,5 @@
 import { changePointInWords } from '../../../shared-core/view/change-words.js';
+import { perWhat } from '../../../shared-core/view/scale-words.js';
 import type { AnalysisResult } from '../../../shared-core/study/analysis-types.js';
 import { beforeAfterDrawing, drawArlCurve } from './change-chart-pdf.js';
 import { drawChartOnPdf, type PdfDoc, type PdfFonts } from './chart-pdf.js';
@@ -52,7 +53,7 @@ export function changeSection(w: SectionWriter, c: PacketContent, fonts: PdfFont
   w.facts([
     ['Reason for the change', change.reasonWords ?? change.reasonCategory ?? '(no category recorded)'],
     ['In the proposer’s words', change.reason || '(not given)'],
-    ['Replaces', replacedWords(change)],
+    ['Replaces', replacedWords(change, c.identity.inspectionUnit)],
     ['Approved sign-offs', approved.signOffs.map(signOffWords).join('\n') || '(none)'],
     ['Approved study', studyWords(approved.result)],
     ['Proposed study', studyWords(c.result)],
@@ -204,9 +205,10 @@ export function changeSection(w: SectionWriter, c: PacketContent, fonts: PdfFont
   );
 }
 
-function replacedWords(change: ChangeContent): string {
+function replacedWords(change: ChangeContent, unit: string): string {
   const a = change.approved;
-  return `revision ${a.number} (approved), effective ${a.effectiveDate ?? '(not set)'}, review ${a.reviewDate ?? '(not set)'}; center ${shown(a.result.center, 6)} ${a.result.chart === 'u' ? 'per inspection unit' : 'per period'}`;
+  const per = perWhat(a.result.chart, unit, a.result.periods[0]?.units ?? 1, 'en-US');
+  return `revision ${a.number} (approved), effective ${a.effectiveDate ?? '(not set)'}, review ${a.reviewDate ?? '(not set)'}; center ${shown(a.result.center, 6)} ${per}`;
 }
 
 function studyWords(r: AnalysisResult): string {

@@ -1,5 +1,6 @@
 import type { AnalysisResult, PeriodResult } from '../../../shared-core/study/analysis-types.js';
 import { palette } from '../../../shared-core/view/palette.js';
+import { scaleTitle } from '../../../shared-core/view/scale-words.js';
 
 /**
  * The packet's chart as drawing primitives, laid out once and drawn by two back ends (PDF vector
@@ -154,7 +155,7 @@ export function layoutChart(
   const scaleWords =
     result.chart === 'u'
       ? `Nonconformities per inspection unit (${words.inspectionUnit})`
-      : `Nonconformities per period (${formatUnits(periods[0]!.units)} × ${words.inspectionUnit})`;
+      : scaleTitle('c', words.inspectionUnit, periods[0]!.units, 'en-US');
   out.push({
     kind: 'text',
     x: 14,
@@ -342,4 +343,3 @@ const tickText = (value: number) =>
   Math.abs(value) >= 1000 ? value.toFixed(0) : String(Number(value.toPrecision(4)));
 const clip = (text: string, length: number) =>
   text.length > length ? `${text.slice(0, length - 1)}…` : text;
-const formatUnits = (units: number) => String(Number(units.toPrecision(6)));

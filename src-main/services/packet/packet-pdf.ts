@@ -10,6 +10,7 @@ import { palette } from './chart-layout.js';
 import { changeSection } from './change-section-pdf.js';
 import { drawTable, type TableColumn } from './pdf-table.js';
 import { installLayoutShortcut } from './pdf-text-layout.js';
+import { perWhat } from '../../../shared-core/view/scale-words.js';
 
 export type Paper = 'a4' | 'letter';
 
@@ -249,7 +250,7 @@ function cover(w: PageWriter, c: PacketContent, facts: PacketFacts): void {
     ['Method', methodWords(result)],
     [
       'Center line',
-      `${shown(result.center, 6)} ${result.chart === 'u' ? 'per inspection unit' : 'per period'}`,
+      `${shown(result.center, 6)} ${perWhat(result.chart, c.identity.inspectionUnit, result.periods[0]?.units ?? 1, 'en-US')}`,
     ],
     ['Control limits', limitsSummary(c)],
     ['Stable', result.stable ? 'yes: no included period signals' : 'no: included periods still signal'],
