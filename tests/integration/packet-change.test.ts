@@ -127,6 +127,14 @@ describe('the change packet', () => {
     expect(verified.stdout).not.toMatch(/INVALID|differs/);
     expect(verified.status, verified.stdout + verified.stderr).toBe(0);
     expect(pdfText).toMatch(/revision 2/);
+    // The revision it replaces is checked as well: approved, signed, and its limits as recorded.
+    expect(verified.stdout).toMatch(/ok +the replaced revision 1 is approved/);
+    expect(verified.stdout).toMatch(
+      /ok +the replaced revision 1: sign-off "approved" by Dana Okafor .*: valid/,
+    );
+    expect(verified.stdout).toMatch(
+      /ok +the replaced revision 1: its limits recompute to the center it records/,
+    );
   });
 
   it('shows the reason, the revision it replaces and its sign-offs, early in the packet', () => {

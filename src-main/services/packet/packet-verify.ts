@@ -1,5 +1,6 @@
 import { createHash, X509Certificate } from 'node:crypto';
 import type { Revision } from '../../../shared-core/study/revision-schema.js';
+import type { Study } from '../../../shared-core/study/study-schema.js';
 import { verifyStudy } from '../../../shared-core/study/verify-study.js';
 import { parseStudy } from '../../../shared-core/study/study-text.js';
 import { describeFinding } from '../../../shared-core/result.js';
@@ -179,6 +180,7 @@ function checkStudy(
       `sign-off "${line.meaning}" by ${line.printedName} (${line.role}, ${line.time}${line.selfIssued ? ', self-issued' : ''}): ${line.state === 'valid' ? 'valid' : `${line.state.toUpperCase()} — ${line.note ?? ''}`}`,
     );
   }
+  if (revision.supersedes !== undefined) checkReplaced(study, revision, revision.supersedes, say);
   const analysis = revisionAnalysis(study, revision);
   if (!analysis.ok) {
     say(false, `the limits cannot be recomputed: ${analysis.findings.map(describeFinding).join('; ')}`);
@@ -242,4 +244,36 @@ function trustOf(signer: Buffer, bundled: Buffer[], trusted: X509Certificate[]):
     }
   }
   return 'untrusted';
+}
+
+/**
+ * A change packet stands on the revision it replaces: that revision must be in the study, approved,
+ * its sign-offs valid, and its limits must still recompute to the center it records.
+ */
+function checkReplaced(
+  study: Study,
+  revision: Revision,
+  replacedId: string,
+  say: (ok: boolean, text: string) => void,
+): void {
+  const replaced = study.revisions.find((r) => r.id === replacedId);
+  if (!replaced) {
+    say(false, `revision ${revision.number} replaces a revision the study does not hold (${replacedId})`);
+    return;
+  }
+  const which = `the replaced revision ${replaced.number}`;
+  say(replaced.status === 'approved', `${which} is ${replaced.status}`);
+  for (const line of signOffStates(study, replaced)) {
+    say(
+      line.state === 'valid',
+      `${which}: sign-off "${line.meaning}" by ${line.printedName} (${line.role}, ${line.time}): ${line.state === 'valid' ? 'valid' : `${line.state.toUpperCase()} — ${line.note ?? ''}`}`,
+    );
+  }
+  const analysis = revisionAnalysis(study, replaced);
+  say(
+    analysis.ok && Math.abs(analysis.value.center - replaced.center) <= tolerance,
+    analysis.ok
+      ? `${which}: its limits recompute to the center it records (${replaced.center})${Math.abs(analysis.value.center - replaced.center) <= tolerance ? '' : `, NOT: ${analysis.value.center}`}`
+      : `${which}: its limits cannot be recomputed: ${analysis.findings.map(describeFinding).join('; ')}`,
+  );
 }
