@@ -29,12 +29,7 @@ const third = (2 * Math.PI) / 3;
  * Adds one mark's outline to the current path, so that every mark of a status is filled and
  * stroked in a single call however many periods there are.
  */
-export function traceMark(
-  context: CanvasRenderingContext2D,
-  status: PeriodStatus,
-  x: number,
-  y: number,
-): void {
+export function traceMark(context: CanvasPath, status: PeriodStatus, x: number, y: number): void {
   const r = markRadius[status];
   if (status === 'signal') {
     // An upright triangle inscribed in a circle of radius r. Its outline is closed by a line back

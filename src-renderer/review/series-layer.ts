@@ -3,6 +3,7 @@ import type { ChartSeries, StepVertex } from '../../shared-core/view/chart-serie
 import { thinForDisplay } from '../../shared-core/view/thin-for-display.js';
 import { visibleMarks } from '../../shared-core/view/visible-marks.js';
 import { colors } from './chart-colors.js';
+import { drawInControlMarks, type MarkPicture } from './mark-picture.js';
 import { markPaint, traceMark } from './point-marks.js';
 
 /** The series' lines, thinned once per series and plot width (a redraw for a new selection reuses them). */
@@ -89,13 +90,14 @@ function strokeLine(
 /**
  * Draws the lines and the point marks: each line as one path, and every mark of a status as one
  * path filled and stroked once. Signals and exclusions are drawn last, so that no in-control mark
- * ever hides one.
+ * ever hides one. The in-control marks come from `picture` when they land where they did last time.
  */
 export function drawSeriesLayer(
   context: CanvasRenderingContext2D,
   layer: SeriesLayer,
   frame: PlotFrame,
   selected: number | null,
+  picture: MarkPicture,
 ): void {
   const { area } = frame;
   context.save();
@@ -123,7 +125,14 @@ export function drawSeriesLayer(
     deviceY[i] = ys[i] * frame.ratio;
   }
   const kept = visibleMarks(points, deviceX, deviceY, selected);
-  const order: PeriodStatus[] = ['in', 'excluded', 'signal'];
+  drawInControlMarks(
+    context,
+    picture,
+    kept.filter((index) => points[index].status === 'in'),
+    xs,
+    ys,
+  );
+  const order: PeriodStatus[] = ['excluded', 'signal'];
   for (const status of order) {
     context.beginPath();
     let any = false;
