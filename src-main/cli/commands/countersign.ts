@@ -1,16 +1,10 @@
 import { readFile } from 'node:fs/promises';
-import { parseArgs } from 'node:util';
 import { findSignatures, signPdf } from '../../services/packet/pdf-signature.js';
 import { writeAtomically } from '../../services/packet/make-packet.js';
-import {
-  keyOptions,
-  keyUsage,
-  passphraseFrom,
-  refuseCommandLinePassphrase,
-  keyOrUsageError,
-} from '../../services/signing/key-flags.js';
+import { keyUsage, passphraseFrom, keyOrUsageError } from '../../services/signing/key-flags.js';
 import { openSigningIdentity } from '../../services/signing/key-source.js';
 import { KeyError } from '../../services/signing/signing-identity.js';
+import { signingCommandArgs, signingOptions } from '../signing-args.js';
 import { exitOnInputError } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger countersign PACKET.pdf --p12 FILE [--passphrase-env VAR] [--reason TEXT] [--out FILE]
@@ -26,22 +20,17 @@ ${keyUsage}
 export const run = exitOnInputError('countersign', countersign, keyOrUsageError);
 
 async function countersign(argv: string[]): Promise<number> {
-  refuseCommandLinePassphrase(argv);
-  const { values, positionals } = parseArgs({
-    args: argv,
-    strict: true,
-    allowPositionals: true,
-    options: {
-      ...keyOptions,
+  const parsed = signingCommandArgs(
+    argv,
+    {
+      ...signingOptions,
       reason: { type: 'string' },
       out: { type: 'string' },
-      help: { type: 'boolean', short: 'h' },
     },
-  });
-  if (values.help) {
-    process.stdout.write(usage);
-    return 0;
-  }
+    usage,
+  );
+  if (parsed === null) return 0;
+  const { values, positionals } = parsed;
   const [pdfPath, ...extra] = positionals;
   if (!pdfPath || extra.length > 0) throw new KeyError(`name one packet PDF\n\n${usage}`);
   if (!values.p12) throw new KeyError('name the signing key with --p12 FILE');

@@ -1,16 +1,10 @@
-import { parseArgs } from 'node:util';
 import { describeFinding } from '../../../shared-core/result.js';
 import { localTime } from '../../../shared-core/study/local-time.js';
 import type { Paper } from '../../services/packet/packet-pdf.js';
 import { startPacketThreads, type PacketThreads } from '../../services/packet/packet-threads.js';
-import {
-  keyOptions,
-  keyUsage,
-  passphraseFrom,
-  refuseCommandLinePassphrase,
-  keyOrUsageError,
-} from '../../services/signing/key-flags.js';
+import { keyUsage, passphraseFrom, keyOrUsageError } from '../../services/signing/key-flags.js';
 import { KeyError, type SigningIdentity } from '../../services/signing/signing-identity.js';
+import { signingCommandArgs, signingOptions } from '../signing-args.js';
 import { exitOnInputError } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger packet STUDY --pdf OUT.pdf --xlsx OUT.xlsx [--p12 FILE --passphrase-env VAR]
@@ -37,23 +31,18 @@ ${keyUsage}
 export const run = exitOnInputError('packet', packet, keyOrUsageError);
 
 async function packet(argv: string[]): Promise<number> {
-  refuseCommandLinePassphrase(argv);
-  const { values, positionals } = parseArgs({
-    args: argv,
-    strict: true,
-    allowPositionals: true,
-    options: {
-      ...keyOptions,
+  const parsed = signingCommandArgs(
+    argv,
+    {
+      ...signingOptions,
       pdf: { type: 'string' },
       xlsx: { type: 'string' },
       paper: { type: 'string', default: 'a4' },
-      help: { type: 'boolean', short: 'h' },
     },
-  });
-  if (values.help) {
-    process.stdout.write(usage);
-    return 0;
-  }
+    usage,
+  );
+  if (parsed === null) return 0;
+  const { values, positionals } = parsed;
   const [studyPath, ...extra] = positionals;
   if (!studyPath || extra.length > 0) throw new KeyError(`name one study file\n\n${usage}`);
   if (!values.pdf || !values.xlsx) throw new KeyError('name both outputs: --pdf OUT.pdf --xlsx OUT.xlsx');

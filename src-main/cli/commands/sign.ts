@@ -1,15 +1,8 @@
-import { parseArgs } from 'node:util';
 import { describeFinding } from '../../../shared-core/result.js';
 import { localTime } from '../../../shared-core/study/local-time.js';
 import { signOffMeaningSchema } from '../../../shared-core/study/revision-schema.js';
 import { openStudyFile, saveStudyFile } from '../../services/study-file.js';
-import {
-  keyOptions,
-  keyUsage,
-  passphraseFrom,
-  refuseCommandLinePassphrase,
-  keyOrUsageError,
-} from '../../services/signing/key-flags.js';
+import { keyUsage, passphraseFrom, keyOrUsageError } from '../../services/signing/key-flags.js';
 import { openSigningIdentity } from '../../services/signing/key-source.js';
 import { writeOwnerOnly } from '../../services/signing/key-file.js';
 import {
@@ -19,6 +12,7 @@ import {
 } from '../../services/signing/personal-certificate.js';
 import { addSignOff } from '../../services/signing/sign-off.js';
 import { KeyError } from '../../services/signing/signing-identity.js';
+import { signingCommandArgs, signingOptions } from '../signing-args.js';
 import { exitOnInputError } from '../input-error.js';
 
 export const usage = `Usage: limit-ledger sign STUDY --p12 FILE --signer NAME --role ROLE
@@ -47,13 +41,10 @@ const isoDate = /^\d{4}-\d{2}-\d{2}$/;
 export const run = exitOnInputError('sign', sign, keyOrUsageError);
 
 async function sign(argv: string[]): Promise<number> {
-  refuseCommandLinePassphrase(argv);
-  const { values, positionals } = parseArgs({
-    args: argv,
-    strict: true,
-    allowPositionals: true,
-    options: {
-      ...keyOptions,
+  const parsed = signingCommandArgs(
+    argv,
+    {
+      ...signingOptions,
       signer: { type: 'string' },
       role: { type: 'string' },
       meaning: { type: 'string' },
@@ -64,13 +55,11 @@ async function sign(argv: string[]): Promise<number> {
       organization: { type: 'string' },
       email: { type: 'string' },
       'export-p12': { type: 'string' },
-      help: { type: 'boolean', short: 'h' },
     },
-  });
-  if (values.help) {
-    process.stdout.write(usage);
-    return 0;
-  }
+    usage,
+  );
+  if (parsed === null) return 0;
+  const { values, positionals } = parsed;
   if (values['create-key']) {
     if (!values.signer) throw new KeyError('--create-key needs --signer NAME, the holder’s printed name');
     const passphrase = await passphraseFrom(values, 'Passphrase for the new key: ');
