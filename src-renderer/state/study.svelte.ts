@@ -44,6 +44,14 @@ function distinct<T extends string | number>(values: T[]): T[] {
   return values.filter((value) => (seen[String(value)] ? false : (seen[String(value)] = true)));
 }
 
+/** True when both arrays hold the very same elements in the same order. */
+function sameElements<T>(a: readonly T[], b: readonly T[]): boolean {
+  if (a === b) return true;
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
 /** The local clock's reading as audit events record it; a value, not reactive state. */
 function now(): string {
   const offset = -new globalThis.Date(Date.now()).getTimezoneOffset();
@@ -85,7 +93,21 @@ export class StudyState {
 
   /** The decisions folded: corrected observations, exclusions in force, method, undo and redo. */
   readonly state = $derived(this.document ? decisions.deriveState(this.document) : null);
-  readonly observations: Observation[] = $derived(this.state?.observations ?? []);
+  /**
+   * The observations with corrections applied. Most decisions (an exclusion, a note, a split)
+   * leave every observation as it was: the fold then gives the same observations in a new array,
+   * and this keeps the array before it, so what depends on the observations alone (the categories,
+   * the period labels, the chart kind's units check) is not worked out again.
+   */
+  readonly observations: Observation[] = $derived.by(() => {
+    const now = this.state?.observations ?? [];
+    const before = this.#lastObservations;
+    if (sameElements(before, now)) return before;
+    this.#lastObservations = now;
+    return now;
+  });
+  /** The observations last handed out (plain, not reactive: it only remembers). */
+  #lastObservations: Observation[] = [];
   readonly exclusions = $derived(this.state?.exclusions ?? []);
   readonly options: AnalysisOptions = $derived(this.state?.method ?? defaultOptions);
   readonly audit: AuditEvent[] = $derived(this.document?.events ?? []);
