@@ -35,14 +35,24 @@ export interface SeriesOptions {
  * change with kᵢ show as steps. Runs of equal values collapse into one segment.
  */
 export function steppedLine(values: (number | null)[]): StepVertex[] {
+  return steppedLineOf(values.length, (i) => values[i]);
+}
+
+/**
+ * `steppedLine` of the values `valueAt(0)` to `valueAt(count − 1)`, read once each: a long history
+ * builds its lines without an array of values per line first.
+ */
+function steppedLineOf(count: number, valueAt: (i: number) => number | null): StepVertex[] {
   const vertices: StepVertex[] = [];
+  if (count === 0) return vertices;
   let start = 0;
-  while (start < values.length) {
-    const value = values[start];
-    let end = start;
-    while (end + 1 < values.length && values[end + 1] === value) end++;
-    vertices.push({ x: start + 0.5, y: value }, { x: end + 1.5, y: value });
-    start = end + 1;
+  let value = valueAt(0);
+  for (let i = 1; i <= count; i++) {
+    const next = i < count ? valueAt(i) : value;
+    if (i < count && next === value) continue;
+    vertices.push({ x: start + 0.5, y: value }, { x: i + 0.5, y: value });
+    start = i;
+    value = next;
   }
   return vertices;
 }
@@ -61,25 +71,33 @@ function plottedSpread(result: AnalysisResult, units: number): number {
 /** The chart's series from an analysis: points with their states, the center line and stepped limits. */
 export function chartSeries(result: AnalysisResult, options: SeriesOptions = {}): ChartSeries {
   const periods = result.periods;
+  const n = periods.length;
   const useAverage = options.averageK === true && result.averageK !== null;
+  const points = new Array<ChartPoint>(n);
   if (options.standardized) {
     const standardize = (value: number | null, i: number) =>
       value === null ? null : (value - periods[i].center) / plottedSpread(result, periods[i].units);
+    for (let i = 0; i < n; i++)
+      points[i] = { x: i + 1, y: periods[i].z, position: i, status: periods[i].status };
     return {
       scale: 'standardized',
-      points: periods.map((p, i) => ({ x: i + 1, y: p.z, position: i, status: p.status })),
-      center: steppedLine(periods.map(() => 0)),
-      upper: steppedLine(periods.map((p, i) => standardize(p.ucl, i))),
-      lower: steppedLine(periods.map((p, i) => standardize(p.lcl, i))),
+      points,
+      center: steppedLineOf(n, () => 0),
+      upper: steppedLineOf(n, (i) => standardize(periods[i].ucl, i)),
+      lower: steppedLineOf(n, (i) => standardize(periods[i].lcl, i)),
     };
   }
-  const plotted = (p: (typeof periods)[number]) => (result.chart === 'u' ? p.rate : p.count);
-  const average = result.averageK;
+  const rates = result.chart === 'u';
+  for (let i = 0; i < n; i++) {
+    const p = periods[i];
+    points[i] = { x: i + 1, y: rates ? p.rate : p.count, position: i, status: p.status };
+  }
+  const average = useAverage ? result.averageK : null;
   return {
-    scale: result.chart === 'u' ? 'rate' : 'count',
-    points: periods.map((p, i) => ({ x: i + 1, y: plotted(p), position: i, status: p.status })),
-    center: steppedLine(periods.map((p) => p.center)),
-    upper: steppedLine(periods.map((p) => (useAverage && average ? average.ucl : p.ucl))),
-    lower: steppedLine(periods.map((p) => (useAverage && average ? average.lcl : p.lcl))),
+    scale: rates ? 'rate' : 'count',
+    points,
+    center: steppedLineOf(n, (i) => periods[i].center),
+    upper: average ? steppedLineOf(n, () => average.ucl) : steppedLineOf(n, (i) => periods[i].ucl),
+    lower: average ? steppedLineOf(n, () => average.lcl) : steppedLineOf(n, (i) => periods[i].lcl),
   };
 }
