@@ -50,7 +50,10 @@ export function analyzePhaseOne(
   // Exclusions name distinct periods (a Map key each), so the rest are the included ones.
   const m = n - causes.size;
   if (m === 0) return fail({ message: 'every period is excluded: at least one must stay in the estimate' });
-  const isIncluded = (i: number) => causes.size === 0 || !causes.has(i);
+  // A flag per period, so that each pass asks an array, not the map.
+  const excluded = new Uint8Array(n);
+  for (const index of causes.keys()) excluded[index] = 1;
+  const isIncluded = (i: number) => excluded[i] === 0;
 
   const chart = chooseChart(observations, options.chart);
   if (!chart.ok) return chart;
@@ -130,10 +133,13 @@ export function analyzePhaseOne(
   const includedCounts: number[] = new Array<number>(m);
   const includedUnits: number[] = new Array<number>(m);
   const alarms: number[] = new Array<number>(m);
+  const plottedAt: UnitsLimits[] = new Array<UnitsLimits>(n);
   for (let i = 0, t = 0; i < n; i++) {
-    if (!isIncluded(i)) continue;
     const { count, units } = observations[i];
-    const { limits, alarm } = atUnits(units);
+    const entry = atUnits(units);
+    plottedAt[i] = entry;
+    if (!isIncluded(i)) continue;
+    const { limits, alarm } = entry;
     includedZ[t] = z[i];
     beyond[t] = signalsHigh(count, limits) || signalsLow(count, limits);
     includedCounts[t] = count;
@@ -145,8 +151,8 @@ export function analyzePhaseOne(
   const periods: PeriodResult[] = new Array<PeriodResult>(n);
   for (let i = 0, t = 0; i < n; i++) {
     const o = observations[i];
-    const plotted = atUnits(o.units);
-    const cause = causes.size === 0 ? undefined : causes.get(i);
+    const plotted = plottedAt[i];
+    const cause = excluded[i] === 0 ? undefined : causes.get(i);
     const rules = cause ? noRules : fired[t++];
     const period: PeriodResult = {
       index: i,
