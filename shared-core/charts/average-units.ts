@@ -5,6 +5,9 @@
  */
 export function averageUnitsForDisplay(units: readonly number[], tolerance = 0.25): number | null {
   if (units.length === 0) return null;
-  const mean = units.reduce((sum, k) => sum + k, 0) / units.length;
-  return units.every((k) => Math.abs(k - mean) <= tolerance * mean) ? mean : null;
+  let sum = 0;
+  for (let i = 0; i < units.length; i++) sum += units[i];
+  const mean = sum / units.length;
+  for (let i = 0; i < units.length; i++) if (!(Math.abs(units[i] - mean) <= tolerance * mean)) return null;
+  return mean;
 }

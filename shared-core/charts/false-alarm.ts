@@ -33,6 +33,6 @@ export function pointFalseAlarm(limits: CountLimits): number {
  */
 export function phaseOneFap(pointAlarms: readonly number[]): number {
   let logNoAlarm = 0;
-  for (const a of pointAlarms) logNoAlarm += Math.log1p(-a);
+  for (let i = 0; i < pointAlarms.length; i++) logNoAlarm += Math.log1p(-pointAlarms[i]);
   return -Math.expm1(logNoAlarm);
 }

@@ -8,13 +8,16 @@ import type { RuleSeries } from './rule-series.js';
  * (a run of 10 fires `run:8` at its 8th, 9th and 10th periods).
  */
 export function findSignals(series: RuleSeries, rules: readonly RuleId[]): (readonly RuleId[])[] {
-  const definitions = rules.map((id) => ruleCatalog[id]);
   const length = series.z.length;
-  const fired = new Array<readonly RuleId[]>(length);
-  for (let t = 0; t < length; t++) {
-    let here: RuleId[] | undefined;
-    for (const rule of definitions) if (rule.firesAt(series, t)) (here ??= []).push(rule.id);
-    fired[t] = here ?? noRules;
+  const fired = new Array<readonly RuleId[]>(length).fill(noRules);
+  // Rule by rule over the whole series (one rule's test in each tight loop), each id added in the
+  // order of the selection.
+  for (const id of rules) {
+    const firesAt = ruleCatalog[id].firesAt;
+    for (let t = 0; t < length; t++) {
+      if (!firesAt(series, t)) continue;
+      fired[t] = fired[t] === noRules ? [id] : [...fired[t], id];
+    }
   }
   return fired;
 }

@@ -23,7 +23,9 @@ export function phaseOneWarnings(result: AnalysisResult, options: AnalysisOption
   const expected = new Float64Array(result.periods.length);
   let included = 0;
   let withoutLower = 0;
-  for (const p of result.periods) {
+  const periods = result.periods;
+  for (let i = 0; i < periods.length; i++) {
+    const p = periods[i];
     if (p.status === 'excluded') continue;
     if (p.lcl === null) withoutLower++;
     expected[included++] = p.units * result.rate;

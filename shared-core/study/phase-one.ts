@@ -149,6 +149,7 @@ export function analyzePhaseOne(
   const fired = findSignals({ z: includedZ, beyond }, options.rules);
 
   const periods: PeriodResult[] = new Array<PeriodResult>(n);
+  let signalling = 0;
   for (let i = 0, t = 0; i < n; i++) {
     const o = observations[i];
     const plotted = plottedAt[i];
@@ -170,6 +171,7 @@ export function analyzePhaseOne(
     };
     if (o.rows) period.rows = o.rows;
     if (cause) period.cause = cause;
+    else if (rules.length > 0) signalling++;
     periods[i] = period;
   }
 
@@ -227,7 +229,7 @@ export function analyzePhaseOne(
     periods,
     dispersion,
     averageK,
-    stable: periods.every((p) => p.status !== 'signal'),
+    stable: signalling === 0,
     warnings: [],
   };
   result.warnings = phaseOneWarnings(result, { ...options, alpha, multiplier });
@@ -246,7 +248,8 @@ interface UnitsLimits {
 /** A c chart when every period has the same k, else a u chart; `c` with varying k is an error. */
 function chooseChart(observations: readonly Observation[], requested?: ChartKind): Result<ChartKind> {
   const first = observations[0].units;
-  const equal = observations.every((o) => o.units === first);
+  let equal = true;
+  for (let i = 1; i < observations.length && equal; i++) equal = observations[i].units === first;
   if (requested === 'c' && !equal)
     return fail({
       message:
