@@ -1,3 +1,5 @@
+import { blankPicture, paintPicture } from './canvas-picture.js';
+
 /**
  * The chart's background, grid, ticks and axis titles as chart.js last laid them out and drew them,
  * kept as a picture of the whole canvas. While the axes stay as laid out (an exclusion, a new
@@ -29,23 +31,10 @@ export function takeAxesPicture(
   picture: AxesPicture,
   chart: ChartFrame & { canvas: HTMLCanvasElement },
 ): void {
-  const { width, height } = chart.canvas;
-  if (typeof OffscreenCanvas === 'undefined' || width === 0 || height === 0) {
-    picture.canvas = null;
-    return;
-  }
-  const canvas =
-    picture.canvas?.width === width && picture.canvas.height === height
-      ? picture.canvas
-      : new OffscreenCanvas(width, height);
-  const own = canvas.getContext('2d');
-  if (!own) {
-    picture.canvas = null;
-    return;
-  }
-  own.clearRect(0, 0, width, height);
-  own.drawImage(chart.canvas, 0, 0);
-  picture.canvas = canvas;
+  const blank = blankPicture(picture.canvas, chart.canvas.width, chart.canvas.height);
+  picture.canvas = blank?.canvas ?? null;
+  if (!blank) return;
+  blank.context.drawImage(chart.canvas, 0, 0);
   picture.frame = frameOf(chart);
 }
 
@@ -58,9 +47,5 @@ export function axesPictureFits(picture: AxesPicture, chart: ChartFrame): boolea
 
 /** Paints the picture over the whole canvas, whatever the context's transform. */
 export function paintAxesPicture(picture: AxesPicture, context: CanvasRenderingContext2D): void {
-  if (picture.canvas === null) return;
-  context.save();
-  context.setTransform(1, 0, 0, 1, 0, 0);
-  context.drawImage(picture.canvas, 0, 0);
-  context.restore();
+  if (picture.canvas !== null) paintPicture(context, picture.canvas);
 }

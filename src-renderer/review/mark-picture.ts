@@ -1,5 +1,6 @@
 import { colors } from './chart-colors.js';
 import { traceMark } from './point-marks.js';
+import { blankPicture, paintPicture } from './canvas-picture.js';
 
 /**
  * The in-control marks as last drawn, kept as a picture of the whole canvas. An exclusion moves no
@@ -67,31 +68,17 @@ export function drawInControlMarks(
   ys: ArrayLike<number>,
 ): void {
   if (indices.length === 0) return;
-  const { width, height } = context.canvas;
-  if (typeof OffscreenCanvas === 'undefined' || width === 0 || height === 0) {
-    fillMarks(context, indices, xs, ys);
-    return;
-  }
   const key = pictureKey(context, indices, xs, ys);
   if (!sameKey(picture.key, key) || picture.canvas === null) {
-    const canvas =
-      picture.canvas?.width === width && picture.canvas.height === height
-        ? picture.canvas
-        : new OffscreenCanvas(width, height);
-    const own = canvas.getContext('2d');
-    if (!own) {
+    const blank = blankPicture(picture.canvas, context.canvas.width, context.canvas.height);
+    if (!blank) {
       fillMarks(context, indices, xs, ys);
       return;
     }
-    own.setTransform(1, 0, 0, 1, 0, 0);
-    own.clearRect(0, 0, width, height);
-    own.setTransform(context.getTransform());
-    fillMarks(own, indices, xs, ys);
-    picture.canvas = canvas;
+    blank.context.setTransform(context.getTransform());
+    fillMarks(blank.context, indices, xs, ys);
+    picture.canvas = blank.canvas;
     picture.key = key;
   }
-  context.save();
-  context.setTransform(1, 0, 0, 1, 0, 0);
-  context.drawImage(picture.canvas, 0, 0);
-  context.restore();
+  paintPicture(context, picture.canvas);
 }
