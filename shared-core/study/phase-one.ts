@@ -17,6 +17,7 @@ import type {
   Exclusion,
   Observation,
   PeriodResult,
+  RuleId,
 } from './analysis-types.js';
 import { dispersionCheck } from './dispersion-check.js';
 import { phaseOneWarnings, uclAt } from './phase-one-warnings.js';
@@ -53,21 +54,14 @@ export function analyzePhaseOne(
   // A flag per period, so that each pass asks an array, not the map.
   const excluded = new Uint8Array(n);
   for (const index of causes.keys()) excluded[index] = 1;
-  const isIncluded = (i: number) => excluded[i] === 0;
 
   const chart = chooseChart(observations, options.chart);
   if (!chart.ok) return chart;
 
   // One pass per quantity, in period order, with typed arrays for the per-period numbers: a long
-  // history feels every extra pass and every short-lived object.
-  let totalCount = 0;
-  let totalUnits = 0;
-  for (let i = 0; i < n; i++) {
-    if (isIncluded(i)) {
-      totalCount += observations[i].count;
-      totalUnits += observations[i].units;
-    }
-  }
+  // history feels every extra pass and every short-lived object. Each pass is a function of its
+  // own, so that the engine compiles each hot loop alone.
+  const { count: totalCount, units: totalUnits } = includedTotals(observations, excluded);
   const rateKnown = options.knownRate !== undefined;
   const rate = options.knownRate ?? totalCount / totalUnits;
   if (!(rate > 0) || !Number.isFinite(rate))
@@ -77,16 +71,12 @@ export function analyzePhaseOne(
         : 'no nonconformity was counted in the included periods (ū = 0): c and u limits cannot be set',
     });
 
-  const z = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const o = observations[i];
-    z[i] = standardizedValue(o.count / o.units, rate, o.units);
-  }
+  const z = standardizedValues(observations, rate);
   let sigmaZ: number | null = null;
   if (options.limits === 'laney') {
     sigmaZ = laneySigmaZ(
       z,
-      observations.map((_, i) => isIncluded(i)),
+      observations.map((_, i) => excluded[i] === 0),
     );
     if (sigmaZ === null)
       return fail({ message: 'Laney u′ limits need at least two adjacent included periods' });
@@ -127,53 +117,12 @@ export function analyzePhaseOne(
     return entry;
   };
 
-  // The rules see the included periods in order; so do the dispersion check, the FAP and k̄.
-  const includedZ = new Float64Array(m);
-  const beyond: boolean[] = new Array<boolean>(m);
-  const includedCounts: number[] = new Array<number>(m);
-  const includedUnits: number[] = new Array<number>(m);
-  const alarms: number[] = new Array<number>(m);
-  const plottedAt: UnitsLimits[] = new Array<UnitsLimits>(n);
-  for (let i = 0, t = 0; i < n; i++) {
-    const { count, units } = observations[i];
-    const entry = atUnits(units);
-    plottedAt[i] = entry;
-    if (!isIncluded(i)) continue;
-    const { limits, alarm } = entry;
-    includedZ[t] = z[i];
-    beyond[t] = signalsHigh(count, limits) || signalsLow(count, limits);
-    includedCounts[t] = count;
-    includedUnits[t] = units;
-    alarms[t++] = alarm;
-  }
-  const fired = findSignals({ z: includedZ, beyond }, options.rules);
+  const plottedAt = unitsLimitsOf(observations, atUnits);
+  const included = includedSeries(observations, excluded, m, z, plottedAt);
+  const { includedCounts, includedUnits, alarms } = included;
+  const fired = findSignals(included, options.rules);
 
-  const periods: PeriodResult[] = new Array<PeriodResult>(n);
-  let signalling = 0;
-  for (let i = 0, t = 0; i < n; i++) {
-    const o = observations[i];
-    const plotted = plottedAt[i];
-    const cause = excluded[i] === 0 ? undefined : causes.get(i);
-    const rules = cause ? noRules : fired[t++];
-    const period: PeriodResult = {
-      index: i,
-      label: o.label,
-      row: o.row,
-      count: o.count,
-      units: o.units,
-      rate: o.count / o.units,
-      center: plotted.center,
-      lcl: plotted.lcl,
-      ucl: plotted.ucl,
-      z: z[i],
-      status: cause ? 'excluded' : rules.length > 0 ? 'signal' : 'in',
-      rules,
-    };
-    if (o.rows) period.rows = o.rows;
-    if (cause) period.cause = cause;
-    else if (rules.length > 0) signalling++;
-    periods[i] = period;
-  }
+  const { periods, signalling } = periodResults(observations, causes, excluded, plottedAt, z, fired);
 
   const dispersion = dispersionCheck(includedCounts, includedUnits, rate, rateKnown);
   const fap = phaseOneFap(alarms);
@@ -234,6 +183,107 @@ export function analyzePhaseOne(
   };
   result.warnings = phaseOneWarnings(result, { ...options, alpha, multiplier });
   return ok(result);
+}
+
+/** Σx and Σk of the included periods, in period order. */
+function includedTotals(observations: readonly Observation[], excluded: Uint8Array) {
+  let count = 0;
+  let units = 0;
+  for (let i = 0; i < observations.length; i++) {
+    if (excluded[i] === 0) {
+      count += observations[i].count;
+      units += observations[i].units;
+    }
+  }
+  return { count, units };
+}
+
+/** Each period's z = (uᵢ − ū)/√(ū/kᵢ) (before Laney's σz). */
+function standardizedValues(observations: readonly Observation[], rate: number): Float64Array {
+  const z = new Float64Array(observations.length);
+  for (let i = 0; i < observations.length; i++) {
+    const o = observations[i];
+    z[i] = standardizedValue(o.count / o.units, rate, o.units);
+  }
+  return z;
+}
+
+/** Each period's limits at its own k. */
+function unitsLimitsOf(
+  observations: readonly Observation[],
+  atUnits: (units: number) => UnitsLimits,
+): UnitsLimits[] {
+  const plottedAt = new Array<UnitsLimits>(observations.length);
+  for (let i = 0; i < observations.length; i++) plottedAt[i] = atUnits(observations[i].units);
+  return plottedAt;
+}
+
+/**
+ * The included periods in order, as the rules see them (z, beyond a limit) and as the dispersion
+ * check, the FAP and k̄ take them (counts, units, point false-alarm probabilities).
+ */
+function includedSeries(
+  observations: readonly Observation[],
+  excluded: Uint8Array,
+  m: number,
+  z: Float64Array,
+  plottedAt: readonly UnitsLimits[],
+) {
+  const includedZ = new Float64Array(m);
+  const beyond: boolean[] = new Array<boolean>(m);
+  const includedCounts: number[] = new Array<number>(m);
+  const includedUnits: number[] = new Array<number>(m);
+  const alarms: number[] = new Array<number>(m);
+  for (let i = 0, t = 0; i < observations.length; i++) {
+    if (excluded[i] !== 0) continue;
+    const { count, units } = observations[i];
+    const { limits, alarm } = plottedAt[i];
+    includedZ[t] = z[i];
+    beyond[t] = signalsHigh(count, limits) || signalsLow(count, limits);
+    includedCounts[t] = count;
+    includedUnits[t] = units;
+    alarms[t++] = alarm;
+  }
+  return { z: includedZ, beyond, includedCounts, includedUnits, alarms };
+}
+
+/** Every period's result: its limits at its k, its z, its status and the rules that fired there. */
+function periodResults(
+  observations: readonly Observation[],
+  causes: ReadonlyMap<number, AssignableCause>,
+  excluded: Uint8Array,
+  plottedAt: readonly UnitsLimits[],
+  z: Float64Array,
+  fired: readonly (readonly RuleId[])[],
+) {
+  const n = observations.length;
+  const periods: PeriodResult[] = new Array<PeriodResult>(n);
+  let signalling = 0;
+  for (let i = 0, t = 0; i < n; i++) {
+    const o = observations[i];
+    const plotted = plottedAt[i];
+    const cause = excluded[i] === 0 ? undefined : causes.get(i);
+    const rules = cause ? noRules : fired[t++];
+    const period: PeriodResult = {
+      index: i,
+      label: o.label,
+      row: o.row,
+      count: o.count,
+      units: o.units,
+      rate: o.count / o.units,
+      center: plotted.center,
+      lcl: plotted.lcl,
+      ucl: plotted.ucl,
+      z: z[i],
+      status: cause ? 'excluded' : rules.length > 0 ? 'signal' : 'in',
+      rules,
+    };
+    if (o.rows) period.rows = o.rows;
+    if (cause) period.cause = cause;
+    else if (rules.length > 0) signalling++;
+    periods[i] = period;
+  }
+  return { periods, signalling };
 }
 
 /** The limits at one k: as counts, their false-alarm probability, and as plotted. */
