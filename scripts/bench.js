@@ -1,7 +1,7 @@
 // `npm run bench`: speed figures as ratios measured in one run, on this machine, now.
 // Every figure is the best of a few runs (the least disturbed by other work on the machine).
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, openSync, rmSync, writeFileSync } from 'node:fs';
+import { closeSync, existsSync, mkdtempSync, openSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -61,20 +61,35 @@ function best(run) {
   return fastest;
 }
 
-/** Wall and CPU seconds of a whole node process (best of a few runs each). */
-function processSeconds(args) {
+/** Wall and CPU seconds of one whole node process. */
+function processRun(args) {
   const devNull = openSync('/dev/null', 'w');
-  let cpu = Infinity;
-  const wall = best(() => {
-    const child = spawnSync(process.execPath, ['-r', join(root, 'scripts/cpu-report.cjs'), ...args], {
-      stdio: ['ignore', devNull, 'pipe'],
-      maxBuffer: 1 << 26,
-    });
-    if (child.status !== 0) throw new Error(`${args.join(' ')} failed: ${child.stderr}`);
-    const reported = /cpu-seconds ([0-9.]+)/.exec(String(child.stderr));
-    if (reported) cpu = Math.min(cpu, Number(reported[1]));
+  const start = process.hrtime.bigint();
+  const child = spawnSync(process.execPath, ['-r', join(root, 'scripts/cpu-report.cjs'), ...args], {
+    stdio: ['ignore', devNull, 'pipe'],
+    maxBuffer: 1 << 26,
   });
-  return { wall, cpu };
+  const wall = Number(process.hrtime.bigint() - start) / 1e9;
+  closeSync(devNull);
+  if (child.status !== 0) throw new Error(`${args.join(' ')} failed: ${child.stderr}`);
+  const reported = /cpu-seconds ([0-9.]+)/.exec(String(child.stderr));
+  return { wall, cpu: reported ? Number(reported[1]) : Infinity };
+}
+
+/**
+ * The best wall and CPU seconds of each command over a few rounds, the commands taken in turn in
+ * each round: a machine whose speed drifts during the run then slows both sides of a ratio alike.
+ */
+function processSecondsInTurn(commands) {
+  const bests = commands.map(() => ({ wall: Infinity, cpu: Infinity }));
+  for (let round = 0; round < repeats; round++) {
+    commands.forEach((args, i) => {
+      const run = processRun(args);
+      bests[i].wall = Math.min(bests[i].wall, run.wall);
+      bests[i].cpu = Math.min(bests[i].cpu, run.cpu);
+    });
+  }
+  return bests;
 }
 
 // The floor every CSV tool stands on: start node, read the file, split it, sum one column.
@@ -95,19 +110,21 @@ try {
   const rows = [];
   for (const periods of sizes) {
     const { file, observations } = writeHistory(periods);
-    const bare = processSeconds(['-e', bareReadAndSum, file]);
     const core = best(() => analyzePhaseOne(observations, [], defaultOptions));
-    const cli = processSeconds([
-      join(root, 'bin/limit-ledger.js'),
-      'analyze',
-      file,
-      '--count',
-      'count',
-      '--units',
-      'units',
-      '--label',
-      'lot',
-      '--json',
+    const [bare, cli] = processSecondsInTurn([
+      ['-e', bareReadAndSum, file],
+      [
+        join(root, 'bin/limit-ledger.js'),
+        'analyze',
+        file,
+        '--count',
+        'count',
+        '--units',
+        'units',
+        '--label',
+        'lot',
+        '--json',
+      ],
     ]);
     rows.push([
       periods.toLocaleString('en-US'),
