@@ -62,8 +62,18 @@ function best(run) {
   return fastest;
 }
 
+/**
+ * Waits a moment before a timed process: the one before it is still giving back its memory, and a
+ * process started at once is slowed by that (it would make whichever command follows the heavier one
+ * look slower).
+ */
+function settle(ms = 400) {
+  Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
+}
+
 /** Wall and CPU seconds of one whole node process. */
 function processRun(args) {
+  settle();
   const devNull = openSync('/dev/null', 'w');
   const start = process.hrtime.bigint();
   const child = spawnSync(process.execPath, ['-r', join(root, 'scripts/cpu-report.cjs'), ...args], {
