@@ -9,17 +9,6 @@ export interface RuleSeries {
   readonly beyond: ArrayLike<boolean>;
 }
 
-/** One included period as the rules see it: for callers that have a few periods at hand. */
-export interface RulePoint {
-  z: number;
-  beyond: boolean;
-}
-
-/** The series of a list of points. */
-export function ruleSeries(points: readonly RulePoint[]): RuleSeries {
-  return { z: points.map((p) => p.z), beyond: points.map((p) => p.beyond) };
-}
-
 /** True when `test` holds for the z of every period of the window of `length` periods ending at t. */
 export function windowAll(
   series: RuleSeries,

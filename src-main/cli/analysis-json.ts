@@ -163,7 +163,8 @@ export function periodJsonText(p: PeriodResult): string {
  */
 class ByteChunks {
   private chunk: Buffer | null = null;
-  private used = 0;
+  /** Bytes of the chunk written so far (a caller that wrote into `reserve`'s chunk moves it on). */
+  used = 0;
 
   constructor(
     readonly size: number,
@@ -190,14 +191,6 @@ class ByteChunks {
   reserve(bytes: number): Buffer {
     if (this.used + bytes > this.size) this.flush();
     return (this.chunk ??= Buffer.allocUnsafe(this.size));
-  }
-
-  get at(): number {
-    return this.used;
-  }
-
-  set at(offset: number) {
-    this.used = offset;
   }
 
   flush(): void {
@@ -273,7 +266,7 @@ function writePeriod(out: ByteChunks, p: PeriodResult, first: boolean): void {
   const most = labelStart.length + 3 * label.length + rowStart.length + 24 + tail.length;
   if (most > out.size) return out.text(text());
   const chunk = out.reserve(most);
-  let at = out.at;
+  let at = out.used;
   const opening = first ? firstLabelStart : labelStart;
   chunk.set(opening, at);
   at += opening.length;
@@ -290,7 +283,7 @@ function writePeriod(out: ByteChunks, p: PeriodResult, first: boolean): void {
   chunk.set(rowStart, at);
   at = putRow(chunk, at + rowStart.length, p.row);
   chunk.set(tail, at);
-  out.at = at + tail.length;
+  out.used = at + tail.length;
 }
 
 /**

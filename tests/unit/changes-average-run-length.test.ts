@@ -9,7 +9,7 @@ import { averageRunLengthOfChain, runLengthChain } from '../../shared-core/chang
 import { probabilityLimits } from '../../shared-core/charts/probability-limits.js';
 import { sigmaLimits } from '../../shared-core/charts/sigma-limits.js';
 import { ruleCatalog } from '../../shared-core/rules/rule-catalog.js';
-import { ruleSeries, type RulePoint } from '../../shared-core/rules/rule-series.js';
+import type { RuleSeries } from '../../shared-core/rules/rule-series.js';
 import { seededRandom, type Random } from '../../shared-core/stats/random.js';
 import { standardizedValue } from '../../shared-core/charts/standardized-value.js';
 import { analyzePhaseOne } from '../../shared-core/study/phase-one.js';
@@ -43,19 +43,19 @@ function simulatedArl(
   const mean = shift * at.rate * at.units;
   const lengths: number[] = [];
   for (let r = 0; r < runs; r++) {
-    const points: RulePoint[] = [];
+    const series = { z: [] as number[], beyond: [] as boolean[] } satisfies RuleSeries;
     let length = 0;
     for (;;) {
       const count = poissonDraw(random, mean);
-      points.push({
-        z: standardizedValue(count / at.units, at.rate, at.units),
-        beyond: count > at.limits.upper || (at.limits.lower !== null && count < at.limits.lower),
-      });
+      series.z.push(standardizedValue(count / at.units, at.rate, at.units));
+      series.beyond.push(count > at.limits.upper || (at.limits.lower !== null && count < at.limits.lower));
       length++;
       // The rules look back at most 15 periods: keep the last 16 so that long runs stay cheap.
-      if (points.length > 16) points.shift();
-      const t = points.length - 1;
-      const series = ruleSeries(points);
+      if (series.z.length > 16) {
+        series.z.shift();
+        series.beyond.shift();
+      }
+      const t = series.z.length - 1;
       if (rules.some((id) => ruleCatalog[id].firesAt(series, t))) break;
     }
     lengths.push(length);
