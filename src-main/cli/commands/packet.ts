@@ -6,6 +6,7 @@ import { keyUsage, passphraseFrom, keyOrUsageError } from '../../services/signin
 import { KeyError, type SigningIdentity } from '../../services/signing/signing-identity.js';
 import { signingCommandArgs, signingOptions } from '../signing-args.js';
 import { exitOnInputError } from '../input-error.js';
+import { optimizeOnlyLongRunningCode } from '../short-run-tiering.js';
 
 export const usage = `Usage: limit-ledger packet STUDY --pdf OUT.pdf --xlsx OUT.xlsx [--p12 FILE --passphrase-env VAR]
        [--paper a4|letter]
@@ -49,6 +50,7 @@ async function packet(argv: string[]): Promise<number> {
   const paper = values.paper.toLowerCase();
   if (paper !== 'a4' && paper !== 'letter')
     throw new KeyError(`--paper must be a4 or letter, not "${values.paper}"`);
+  optimizeOnlyLongRunningCode();
   // The workbook's and the PDF's threads start before the modules that open the study and the
   // key load here (imported only now), so that exceljs and pdfkit load beside them.
   const threads = startPacketThreads();

@@ -78,12 +78,20 @@ interface OneJobThread {
   stop(): Promise<void>;
 }
 
+/**
+ * The threads' young generation, where V8 puts new objects. What they allocate lives briefly (laid-out
+ * text, XML strings, table rows); a small young generation is collected more often but keeps the
+ * memory they touch small, so the kernel maps fewer fresh pages: packets of 50 to 5,000 periods
+ * are made faster with 8 MB than with V8's default (npm run bench).
+ */
+const youngGenerationMb = 8;
+
 function startThread(path: string): OneJobThread | null {
   const script = new URL(path, import.meta.url);
   if (script.protocol !== 'file:' || !existsSync(fileURLToPath(script))) return null;
   let worker: Worker;
   try {
-    worker = new Worker(script);
+    worker = new Worker(script, { resourceLimits: { maxYoungGenerationSizeMb: youngGenerationMb } });
   } catch {
     return null;
   }
