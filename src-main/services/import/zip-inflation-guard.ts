@@ -1,57 +1,24 @@
 import { createInflateRaw } from 'node:zlib';
 import type { Result } from '../../../shared-core/result.js';
 import { fail, ok } from '../../../shared-core/result.js';
+import { maxZipEntries, readZipDirectory, type ZipEntry } from '../zip-directory.js';
 import { importLimits, megabytes, type ImportLimits } from './import-limits.js';
 
-interface ZipEntry {
-  name: string;
-  method: number;
-  compressedSize: number;
-  dataStart: number;
-}
-
-const maxEntries = 10_000;
-
-/**
- * The entries of a zip archive from its central directory (PKWARE APPNOTE 4.3.12 and 4.3.16: the
- * end-of-central-directory record, then one central header per entry pointing at its local header).
- */
+/** The archive's entries, or why they cannot be listed, in words naming the file. */
 function zipEntries(bytes: Uint8Array, file: string): Result<ZipEntry[]> {
-  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  const notZip = () =>
-    fail<ZipEntry[]>({ file, message: 'is not a readable XLSX workbook (its zip structure is damaged)' });
-  let end = -1;
-  for (let i = bytes.length - 22; i >= Math.max(0, bytes.length - 22 - 0xffff); i--) {
-    if (view.getUint32(i, true) === 0x06054b50) {
-      end = i;
-      break;
-    }
+  const directory = readZipDirectory(bytes);
+  if (directory.ok) return ok(directory.entries);
+  switch (directory.problem) {
+    case 'zip64':
+      return fail({ file, message: 'is a ZIP64 archive, which no XLSX workbook of this size needs' });
+    case 'too many entries':
+      return fail({
+        file,
+        message: `holds ${directory.count} zip entries; more than ${maxZipEntries} are refused`,
+      });
+    case 'damaged':
+      return fail({ file, message: 'is not a readable XLSX workbook (its zip structure is damaged)' });
   }
-  if (end < 0) return notZip();
-  const count = view.getUint16(end + 10, true);
-  let offset = view.getUint32(end + 16, true);
-  if (count === 0xffff || offset === 0xffffffff)
-    return fail({ file, message: 'is a ZIP64 archive, which no XLSX workbook of this size needs' });
-  if (count > maxEntries)
-    return fail({ file, message: `holds ${count} zip entries; more than ${maxEntries} are refused` });
-  const entries: ZipEntry[] = [];
-  const decoder = new TextDecoder();
-  for (let i = 0; i < count; i++) {
-    if (offset + 46 > bytes.length || view.getUint32(offset, true) !== 0x02014b50) return notZip();
-    const method = view.getUint16(offset + 10, true);
-    const compressedSize = view.getUint32(offset + 20, true);
-    const nameLength = view.getUint16(offset + 28, true);
-    const extraLength = view.getUint16(offset + 30, true);
-    const commentLength = view.getUint16(offset + 32, true);
-    const local = view.getUint32(offset + 42, true);
-    const name = decoder.decode(bytes.subarray(offset + 46, offset + 46 + nameLength));
-    if (local + 30 > bytes.length || view.getUint32(local, true) !== 0x04034b50) return notZip();
-    const dataStart = local + 30 + view.getUint16(local + 26, true) + view.getUint16(local + 28, true);
-    if (dataStart + compressedSize > bytes.length) return notZip();
-    entries.push({ name, method, compressedSize, dataStart });
-    offset += 46 + nameLength + extraLength + commentLength;
-  }
-  return ok(entries);
 }
 
 /** Inflates one entry, counting bytes and stopping as soon as the cap is passed. */

@@ -4,6 +4,7 @@ import type { AnalysisResult } from '../../../shared-core/study/analysis-types.j
 import { limitsTable } from './limits-table.js';
 import type { PacketContent } from './packet-content.js';
 import { addChangeSheet } from './change-sheet.js';
+import { deflateStoredEntries } from './deflate-stored-zip.js';
 
 /**
  * The packet's workbook: formulas a reviewer can read and recompute (no macros), with cached
@@ -295,11 +296,8 @@ export async function buildWorkbook(content: PacketContent, options: WorkbookOpt
     content.audit.map((a) => [a.seq, a.time, text(a.who), text(a.what), a.hash]),
   );
 
-  // Deflate level 1: the sheets are repetitive XML that the fastest level still shrinks to a small
-  // file, at a fraction of the default level's time (npm run bench, packet rows).
-  return Buffer.from(
-    await book.xlsx.writeBuffer({ zip: { compression: 'DEFLATE', compressionOptions: { level: 1 } } }),
-  );
+  // Written stored, then deflated by Node's zlib rather than exceljs's JavaScript deflate.
+  return deflateStoredEntries(new Uint8Array(await book.xlsx.writeBuffer({ zip: { compression: 'STORE' } })));
 }
 
 /** A user's words as a text cell: exceljs writes strings as strings, never as formulas. */
