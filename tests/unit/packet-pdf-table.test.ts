@@ -107,9 +107,11 @@ function rows(n: number): string[][] {
     String(i + 1),
     i % 7 === 3
       ? 'Week 12 of the second quarter, night shift, line B'
-      : i % 5 === 0
-        ? `2026-03-${(i % 28) + 1}`
-        : `P${i + 1}`,
+      : i % 13 === 6
+        ? 'WAVE To, AV'
+        : i % 5 === 0
+          ? `2026-03-${(i % 28) + 1}`
+          : `P${i + 1}`,
     String((i * 7 + 3) % 13),
     i % 11 === 0 ? '—' : ((i * 0.0137) % 1).toFixed(5),
     i % 4 === 0 ? 'excluded' : 'in',
@@ -135,6 +137,8 @@ describe('drawTable', () => {
     // 160 rows with wrapped notes run over several pages, so the repeated header is compared too.
     expect((fastBytes.toString('latin1').match(/\/Type \/Page\b/g) ?? []).length).toBeGreaterThan(2);
     expect(fastBytes.equals(referenceBytes)).toBe(true);
+    // Kerned one-line cells (WAVE To, AV) are among them: a glyph run ends at each kerning pair.
+    expect(fastBytes.toString('latin1')).toMatch(/\[<[0-9a-f]+> -?[1-9][0-9.]* <[0-9a-f]+>/);
   });
 
   it('cuts a cell that does not fit with an ellipsis rather than running into the next column', async () => {
