@@ -1,5 +1,6 @@
 import type PDFDocument from 'pdfkit';
 import type { ChartDrawing } from './chart-layout.js';
+import { pdfNumber } from './pdf-number.js';
 
 export type PdfDoc = InstanceType<typeof PDFDocument>;
 
@@ -8,7 +9,15 @@ export interface PdfFonts {
   bold: string;
 }
 
-/** Draws the laid-out chart as PDF vector graphics with its top-left corner at (left, top). */
+/**
+ * Draws the laid-out chart as PDF vector graphics with its top-left corner at (left, top).
+ *
+ * Lines and dots are written as the operators pdfkit's path methods write, a line or a run of
+ * dots in one write rather than one per point. Dots of one color that follow each other (the
+ * in-control periods of a long history) are one path filled once, without a color and a fill
+ * operator per dot; filled in one color, their union paints the same pixels
+ * (tests/integration/packet-chart-pdf.test.ts renders both with poppler).
+ */
 export function drawChartOnPdf(
   doc: PdfDoc,
   drawing: ChartDrawing,
@@ -18,7 +27,22 @@ export function drawChartOnPdf(
 ): void {
   doc.save();
   doc.translate(left, top);
+  let dots: string[] = [];
+  let dotFill = '';
+  const fillDots = () => {
+    if (dots.length === 0) return;
+    doc.addContent(dots.join('\n'));
+    doc.fill(dotFill);
+    dots = [];
+  };
   for (const p of drawing.primitives) {
+    if (p.kind === 'circle') {
+      if (p.fill !== dotFill) fillDots();
+      dotFill = p.fill;
+      dots.push(circlePath(p.x, p.y, p.radius));
+      continue;
+    }
+    fillDots();
     switch (p.kind) {
       case 'rect':
         doc.rect(p.x, p.y, p.width, p.height);
@@ -27,19 +51,17 @@ export function drawChartOnPdf(
         else if (p.stroke) doc.lineWidth(p.lineWidth ?? 1).stroke(p.stroke);
         break;
       case 'polyline': {
-        const [first, ...rest] = p.points;
-        if (!first) break;
-        doc.moveTo(first[0], first[1]);
-        for (const [x, y] of rest) doc.lineTo(x, y);
+        if (p.points.length === 0) break;
+        // The moveTo and lineTo operators pdfkit writes, in one write rather than one per point.
+        doc.addContent(
+          p.points.map(([x, y], i) => `${pdfNumber(x)} ${pdfNumber(y)} ${i === 0 ? 'm' : 'l'}`).join('\n'),
+        );
         doc.lineWidth(p.lineWidth);
         if (p.dash) doc.dash(p.dash[0], { space: p.dash[1] });
         doc.stroke(p.stroke);
         if (p.dash) doc.undash();
         break;
       }
-      case 'circle':
-        doc.circle(p.x, p.y, p.radius).fill(p.fill);
-        break;
       case 'polygon':
         doc.polygon(...p.points).fill(p.fill);
         break;
@@ -60,5 +82,25 @@ export function drawChartOnPdf(
       }
     }
   }
+  fillDots();
   doc.restore();
+}
+
+/** pdfkit's KAPPA, written as it is there so that the control points come out to the same digits. */
+const kappa = 4.0 * ((Math.sqrt(2) - 1.0) / 3.0);
+
+/** The operators of pdfkit's `circle(x, y, r)`: a move, four Bézier quarter arcs, a close. */
+function circlePath(cx: number, cy: number, r: number): string {
+  const n = pdfNumber;
+  const [x, y] = [cx - r, cy - r];
+  const o = r * kappa;
+  const [xe, ye, xm, ym] = [x + r * 2, y + r * 2, x + r, y + r];
+  return [
+    `${n(x)} ${n(ym)} m`,
+    `${n(x)} ${n(ym - o)} ${n(xm - o)} ${n(y)} ${n(xm)} ${n(y)} c`,
+    `${n(xm + o)} ${n(y)} ${n(xe)} ${n(ym - o)} ${n(xe)} ${n(ym)} c`,
+    `${n(xe)} ${n(ym + o)} ${n(xm + o)} ${n(ye)} ${n(xm)} ${n(ye)} c`,
+    `${n(xm - o)} ${n(ye)} ${n(x)} ${n(ym + o)} ${n(x)} ${n(ym)} c`,
+    'h',
+  ].join('\n');
 }

@@ -1,5 +1,6 @@
 import { palette } from './chart-layout.js';
 import type { PdfDoc, PdfFonts } from './chart-pdf.js';
+import { pdfNumber } from './pdf-number.js';
 import { installLayoutShortcut } from './pdf-text-layout.js';
 
 export interface TableColumn {
@@ -143,9 +144,6 @@ function lineCell(
   row.write();
   doc.text(text, x, y, { width, align, lineBreak: false, ellipsis: true, height });
 }
-
-/** Numbers as pdfkit writes them into page content: rounded to 6 decimals (PDFObject.number). */
-const pdfNumber = (n: number): number => Math.round(n * 1e6) / 1e6;
 
 interface GlyphPosition {
   xAdvance: number;
