@@ -1,33 +1,18 @@
 // `npm run bench` part: `limit-ledger packet` (signed PDF + workbook + limits exports) as a whole
 // process, for studies of 50, 500 and 5,000 periods. Includes starting Node, loading the modules,
 // opening the key (PBKDF2 with 600,000 iterations) and writing the files. Target: 500 periods
-// within 1.5 s. The empty-process row shows what Node's own start costs on this machine now.
-import { spawnSync } from 'node:child_process';
+// within 1.5 s. The sizes are run in turn, round by round, with an empty node process among them:
+// its row shows what Node's own start costs on this machine now. CPU seconds are of all threads.
 import { mkdtempSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { processSecondsInTurn } from './bench-process.js';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const load = (file) => import(pathToFileURL(join(root, 'dist', file)).href);
 const cli = join(root, 'bin', 'limit-ledger.js');
-
-const repeats = Number(process.env.LL_BENCH_REPEATS ?? 5);
-
-/** The best of a few runs of a whole process (the least disturbed by other work on the machine). */
-function timed(args, env) {
-  let fastest = Infinity;
-  for (let i = 0; i < repeats; i++) {
-    // A moment for the process before to give back its memory (see bench.js).
-    Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, 400);
-    const start = process.hrtime.bigint();
-    const run = spawnSync(process.execPath, args, { env, encoding: 'utf8' });
-    const seconds = Number(process.hrtime.bigint() - start) / 1e9;
-    if (run.status !== 0) throw new Error(`${args.join(' ')} failed: ${run.stderr}`);
-    fastest = Math.min(fastest, seconds);
-  }
-  return fastest;
-}
+const sizes = [50, 500, 5000];
 
 export async function benchPacket() {
   const { newStudy } = await load('shared-core/study/new-study.js');
@@ -44,8 +29,8 @@ export async function benchPacket() {
     const keyPath = join(work, 'bench.key');
     await writeOwnerOnly(keyPath, await personalKeyFileText(identity, passphrase));
     const env = { ...process.env, LL_BENCH_PASS: passphrase };
-    const rows = [{ name: 'node, empty process', seconds: timed(['-e', ''], env), 'PDF KiB': 0 }];
-    for (const periods of [50, 500, 5000]) {
+    const commands = [['-e', '']];
+    for (const periods of sizes) {
       // Invented counts: a benchmark load, not data.
       const observations = Array.from({ length: periods }, (_, i) => ({
         label: `P${i + 1}`,
@@ -79,31 +64,31 @@ export async function benchPacket() {
       const studyPath = join(work, `bench-${periods}.ledger`);
       const saved = await saveStudyFile(studyPath, signed.value.study);
       if (!saved.ok) throw new Error(JSON.stringify(saved.findings));
-      const pdf = join(work, `bench-${periods}.pdf`);
-      const seconds = timed(
-        [
-          cli,
-          'packet',
-          studyPath,
-          '--pdf',
-          pdf,
-          '--xlsx',
-          join(work, `bench-${periods}.xlsx`),
-          '--p12',
-          keyPath,
-          '--passphrase-env',
-          'LL_BENCH_PASS',
-        ],
-        env,
-      );
-      rows.push({
-        name: `packet, ${periods.toLocaleString('en-US')} periods`,
-        seconds,
-        'PDF KiB': Math.round(statSync(pdf).size / 1024),
-      });
+      commands.push([
+        cli,
+        'packet',
+        studyPath,
+        '--pdf',
+        join(work, `bench-${periods}.pdf`),
+        '--xlsx',
+        join(work, `bench-${periods}.xlsx`),
+        '--p12',
+        keyPath,
+        '--passphrase-env',
+        'LL_BENCH_PASS',
+      ]);
     }
-    const base = rows[1].seconds;
-    return rows.map((row) => ({ ...row, 'relative to 50 periods': row.seconds / base }));
+    const [empty, ...packets] = processSecondsInTurn(commands, env);
+    const base = packets[0].wall;
+    return [
+      { name: 'node, empty process', seconds: empty.wall, 'CPU seconds': empty.cpu, 'PDF KiB': 0 },
+      ...packets.map((best, i) => ({
+        name: `packet, ${sizes[i].toLocaleString('en-US')} periods`,
+        seconds: best.wall,
+        'CPU seconds': best.cpu,
+        'PDF KiB': Math.round(statSync(join(work, `bench-${sizes[i]}.pdf`)).size / 1024),
+      })),
+    ].map((row) => ({ ...row, 'relative to 50 periods': row.seconds / base }));
   } finally {
     rmSync(work, { recursive: true, force: true });
   }

@@ -1,10 +1,10 @@
 // `npm run bench`: speed figures as ratios measured in one run, on this machine, now.
 // Every figure is the best of a few runs (the least disturbed by other work on the machine).
-import { spawnSync } from 'node:child_process';
-import { closeSync, existsSync, mkdtempSync, openSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { processSecondsInTurn, repeats } from './bench-process.js';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const dist = (path) => join(root, 'dist', path);
@@ -13,8 +13,6 @@ const { defaultOptions } = await import(dist('shared-core/study/analysis-types.j
 const { poissonQuantile, poissonUpperQuantile } = await import(dist('shared-core/stats/poisson.js'));
 
 const sizes = (process.env.LL_BENCH_SIZES ?? '10000,100000,1000000').split(',').map(Number);
-// Five rounds: on a small shared machine the best of three still lands on a disturbed run now and then.
-const repeats = Number(process.env.LL_BENCH_REPEATS ?? 5);
 const work = mkdtempSync(join(tmpdir(), 'limit-ledger-bench-'));
 
 /** A seeded generator, so that every run measures the same data. */
@@ -60,47 +58,6 @@ function best(run) {
     fastest = Math.min(fastest, Number(process.hrtime.bigint() - start) / 1e9);
   }
   return fastest;
-}
-
-/**
- * Waits a moment before a timed process: the one before it is still giving back its memory, and a
- * process started at once is slowed by that (it would make whichever command follows the heavier one
- * look slower).
- */
-function settle(ms = 400) {
-  Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
-}
-
-/** Wall and CPU seconds of one whole node process. */
-function processRun(args) {
-  settle();
-  const devNull = openSync('/dev/null', 'w');
-  const start = process.hrtime.bigint();
-  const child = spawnSync(process.execPath, ['-r', join(root, 'scripts/cpu-report.cjs'), ...args], {
-    stdio: ['ignore', devNull, 'pipe'],
-    maxBuffer: 1 << 26,
-  });
-  const wall = Number(process.hrtime.bigint() - start) / 1e9;
-  closeSync(devNull);
-  if (child.status !== 0) throw new Error(`${args.join(' ')} failed: ${child.stderr}`);
-  const reported = /cpu-seconds ([0-9.]+)/.exec(String(child.stderr));
-  return { wall, cpu: reported ? Number(reported[1]) : Infinity };
-}
-
-/**
- * The best wall and CPU seconds of each command over a few rounds, the commands taken in turn in
- * each round: a machine whose speed drifts during the run then slows both sides of a ratio alike.
- */
-function processSecondsInTurn(commands) {
-  const bests = commands.map(() => ({ wall: Infinity, cpu: Infinity }));
-  for (let round = 0; round < repeats; round++) {
-    commands.forEach((args, i) => {
-      const run = processRun(args);
-      bests[i].wall = Math.min(bests[i].wall, run.wall);
-      bests[i].cpu = Math.min(bests[i].cpu, run.cpu);
-    });
-  }
-  return bests;
 }
 
 // The floor every CSV tool stands on: start node, read the file, split it, sum one column.
