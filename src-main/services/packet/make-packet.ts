@@ -161,7 +161,8 @@ async function writePacket(request: PacketRequest): Promise<Result<string[]>> {
     [`${stem}.limits.json`, files.json],
     [`${stem}.chart.svg`, files.svg],
   ];
-  for (const [path, bytes] of outputs) await writeAtomically(path, bytes);
+  // Each file is written and flushed on its own; side by side, their flushes overlap.
+  await Promise.all(outputs.map(([path, bytes]) => writeAtomically(path, bytes)));
   return ok(outputs.map(([path]) => path));
 }
 
