@@ -318,15 +318,16 @@ function dataTable(w: PageWriter, c: PacketContent): void {
   w.table(
     [
       { header: '#', width: 0.7, align: 'right' },
-      { header: 'Period', width: 2.4 },
+      { header: 'Period', width: 2 },
       { header: 'Row', width: 0.9, align: 'right' },
-      { header: 'Count', width: 1.1, align: 'right' },
+      { header: 'Count', width: 1, align: 'right' },
       { header: 'Units', width: 1.1, align: 'right' },
-      { header: 'Rate', width: 1.3, align: 'right' },
-      { header: 'LCL', width: 1.3, align: 'right' },
-      { header: 'UCL', width: 1.3, align: 'right' },
+      { header: 'Rate', width: 1.4, align: 'right' },
+      // Wide enough for six significant digits of a limit down to 0.000001, never cut.
+      { header: 'LCL', width: 1.8, align: 'right' },
+      { header: 'UCL', width: 1.8, align: 'right' },
       { header: 'Status', width: 1.2 },
-      { header: 'Rules', width: 2.2 },
+      { header: 'Rules', width: 1.9, wrap: true },
     ],
     c.result.periods.map((p, i) => [
       String(i + 1),
