@@ -87,7 +87,10 @@ export function drawTable(doc: PdfDoc, columns: TableColumn[], rows: string[][],
     row.forEach((cell, i) => {
       const column = columns[i]!;
       const cellWidth = widths[i]! - 2 * padding;
-      if (column.wrap === true) {
+      // An empty cell draws nothing (through pdfkit's wrapper too, only slower).
+      if (cell === '') {
+        // nothing to draw
+      } else if (column.wrap === true) {
         text.write();
         doc.text(cell, x + padding, y + 1, {
           width: cellWidth,
