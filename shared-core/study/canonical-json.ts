@@ -90,7 +90,9 @@ function flatCopy(object: Record<string, unknown>, sortedKeys: string[]): Record
     ) {
       return null;
     }
-    if (indexLike.test(key)) return null;
+    // An index-like key, and "__proto__", whose assignment would set the copy's prototype rather
+    // than add a member (the member would vanish from the text), take the general path.
+    if (indexLike.test(key) || key === '__proto__') return null;
     copy[key] = member;
   }
   return copy;

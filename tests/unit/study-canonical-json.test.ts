@@ -81,6 +81,15 @@ describe('canonicalJson (RFC 8785)', () => {
     }
   });
 
+  it('keeps a member named __proto__, as JSON.parse makes it (found by the random test below)', () => {
+    for (const text of ['{"__proto__":null}', '{"b":2,"__proto__":{"x":[1]},"a":"1"}', '[{"__proto__":7}]']) {
+      const value = JSON.parse(text);
+      expect(canonicalJson(value)).toBe(canonicalize(value));
+      expect(canonicalJson(value)).toContain('"__proto__":');
+    }
+    expect(canonicalJson(JSON.parse('{"__proto__":null}'))).not.toBe(canonicalJson({}));
+  });
+
   it('agrees with the canonicalize package on random JSON values', () => {
     fc.assert(
       fc.property(fc.jsonValue(), (value) => {
