@@ -177,8 +177,8 @@ interface PdfkitText {
  * cells are written here as the same operators with the same numbers, from the same glyph encoding
  * (the font's own `encode`, which also adds the glyphs to the embedded subset), so the page
  * content is byte for byte what pdfkit's `text(cell, x, y, { lineBreak: false })` writes, in one
- * write per row. Text whose glyphs are placed off their line (combining marks), a font that is
- * not embedded, and text options carried over from an earlier `continued` text go through pdfkit.
+ * write per row. Text whose glyphs are placed off their line (combining marks), and text while
+ * options carried over from an earlier `continued` text are in force, go through pdfkit.
  */
 class RowText {
   private operators: string[] = [];
